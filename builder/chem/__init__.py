@@ -1,0 +1,1 @@
+"""Chemistry: pure functions of a structure or of SI floats, one published method each."""
