@@ -1,0 +1,169 @@
+"""Units at the edges: parse text quantities into SI floats, format SI floats for people.
+
+Inside the builder every number is an SI float (K, Pa, kg/m³, g/mol is the one
+chemistry exception, kept because every reference uses it).  pint is used only here:
+when an entry is read (``parse_quantity``) and when a value is shown (``format_value``).
+
+Contents
+--------
+DIMENSIONS      named dimensions an entry field may ask for, with their SI unit
+parse_quantity  "78.4 °C" / "0.789 g/cm3" / "12 ± 2 mmHg" → (si_value, si_uncertainty)
+to_unit         an SI float expressed in another unit (for display and exports)
+format_value    the text shown on a page for a value in its display units
+"""
+from __future__ import annotations
+
+import math
+import re
+from dataclasses import dataclass
+
+import pint
+
+_EXPONENT = re.compile(r"(?<=[A-Za-z\u00b5])([23])(?![\d.])")
+
+
+def _superscripts(text: str) -> str:
+    # "cm3" and "m3" are common in data sheets; pint wants "cm**3".
+    return _EXPONENT.sub(r"**\1", text)
+
+
+UREG = pint.UnitRegistry(autoconvert_offset_to_baseunit=True, preprocessors=[_superscripts])
+
+
+@dataclass(frozen=True)
+class Dimension:
+    """A physical dimension an entry field accepts: its SI unit and an example."""
+
+    name: str
+    si_unit: str
+    example: str
+
+    @property
+    def dimensionality(self):
+        return UREG.Quantity(1.0, self.si_unit).dimensionality
+
+
+DIMENSIONS: dict[str, Dimension] = {
+    "temperature": Dimension("temperature", "K", "78.4 °C"),
+    "pressure": Dimension("pressure", "Pa", "5.8 kPa"),
+    "density": Dimension("density", "kg/m**3", "0.789 g/cm3"),
+    "fraction": Dimension("fraction", "dimensionless", "3.3 %"),
+    "ratio": Dimension("ratio", "dimensionless", "1.361"),
+    "mass_concentration": Dimension("mass concentration", "kg/m**3", "20 mg/m3"),
+}
+
+#: dimensionless units kept inside as scaled numbers (a fraction of 2e-5 is kept as 20 ppm)
+FRACTION_SCALE = {"ppm": 1e6, "%": 100.0}
+
+_NUMBER = r"[-+\u2212]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][-+]?\d+)?"
+_QUANTITY = re.compile(
+    rf"^\s*(?P<num>{_NUMBER})\s*(?:(?:±|\+/-|\+-)\s*(?P<unc>{_NUMBER}))?\s*(?P<unit>.*?)\s*$"
+)
+
+
+class UnitProblem(ValueError):
+    """A quantity that could not be read; ``hint`` says what was expected."""
+
+    def __init__(self, message: str, hint: str | None = None):
+        super().__init__(message)
+        self.hint = hint
+
+
+def _number(text: str) -> float:
+    return float(text.replace("\u2212", "-"))
+
+
+def parse_quantity(text: object, dimension: str) -> tuple[float, float | None]:
+    """Read ``"<number> [± <number>] <unit>"`` and return SI (value, uncertainty).
+
+    A bare number is accepted only for dimensionless quantities.  Raises
+    ``UnitProblem`` with a hint naming the expected dimension otherwise.
+    """
+    dim = DIMENSIONS[dimension]
+    if isinstance(text, bool):
+        raise UnitProblem(f"expected a {dim.name} such as '{dim.example}', got {text!r}")
+    if isinstance(text, (int, float)):
+        if dim.si_unit == "dimensionless":
+            return float(text), None
+        raise UnitProblem(
+            f"{text!r} has no unit",
+            hint=f"write the unit, e.g. '{dim.example}'",
+        )
+    if not isinstance(text, str):
+        raise UnitProblem(f"expected a {dim.name} such as '{dim.example}', got {type(text).__name__}")
+    match = _QUANTITY.match(text)
+    if not match:
+        raise UnitProblem(
+            f"cannot read {text!r} as a number with a unit",
+            hint=f"expected a {dim.name}, e.g. '{dim.example}'",
+        )
+    unit_text = match["unit"] or "dimensionless"
+    try:
+        unit = UREG.Unit(unit_text) if unit_text != "dimensionless" else UREG.dimensionless
+    except (pint.errors.UndefinedUnitError, pint.errors.DefinitionSyntaxError, AttributeError,
+            TypeError, ValueError, AssertionError, SyntaxError) as exc:
+        raise UnitProblem(f"unknown unit {unit_text!r}", hint=f"expected a {dim.name}, e.g. '{dim.example}'") from exc
+    if UREG.Quantity(1.0, unit).dimensionality != dim.dimensionality:
+        raise UnitProblem(
+            f"{unit_text!r} is not a unit of {dim.name}",
+            hint=f"expected a {dim.name}, e.g. '{dim.example}'",
+        )
+    value = UREG.Quantity(_number(match["num"]), unit).to(dim.si_unit).magnitude
+    unc = None
+    if match["unc"] is not None:
+        # An uncertainty is a difference: convert it without the offset of °C or °F.
+        delta = UREG.Quantity(_number(match["unc"]), unit)
+        if dimension == "temperature":
+            unc = abs(_number(match["unc"])) * UREG.Quantity(1.0, _delta_unit(unit)).to("K").magnitude
+        else:
+            unc = abs(delta.to(dim.si_unit).magnitude)
+    if not math.isfinite(value):
+        raise UnitProblem(f"{text!r} is not a finite number")
+    return float(value), unc
+
+
+def _delta_unit(unit) -> str:
+    name = str(unit)
+    return {"degree_Celsius": "delta_degC", "degree_Fahrenheit": "delta_degF"}.get(name, name)
+
+
+def to_unit(si_value: float, si_unit: str, unit: str) -> float:
+    """Express an SI float in ``unit`` (offset units handled)."""
+    return float(UREG.Quantity(si_value, si_unit).to(unit).magnitude)
+
+
+def _round(x: float, digits: int) -> str:
+    if x == 0 or not math.isfinite(x):
+        return f"{x:g}"
+    text = f"{x:.{digits}g}"
+    if "e" in text:
+        mantissa, exp = text.split("e")
+        return f"{mantissa} × 10^{int(exp)}"
+    return text
+
+
+def fixed(x: float, decimals: int) -> str:
+    """Fixed-point text with a true minus sign."""
+    return f"{x:.{decimals}f}".replace("-", "\u2212")
+
+
+def format_value(si_value: float, si_unit: str, uncertainty: float | None = None) -> str:
+    """Text a person reads: temperatures in °C with K beside, pressures in kPa."""
+    if si_unit == "K":
+        unc = f" ± {uncertainty:.0f}" if uncertainty else ""
+        return f"{fixed(si_value - 273.15, 1)}{unc} °C ({si_value:.1f} K)"
+    if si_unit == "Pa":
+        kpa = si_value / 1000.0
+        unc = f" ± {_round(uncertainty / 1000.0, 2)}" if uncertainty else ""
+        return f"{_round(kpa, 4)}{unc} kPa".replace("-", "\u2212")
+    if si_unit == "kg/m**3":
+        unc = f" ± {uncertainty / 1000.0:.3f}" if uncertainty else ""
+        return f"{si_value / 1000.0:.3f}{unc} g/cm³"
+    if si_unit in FRACTION_SCALE:
+        unc = f" ± {_round(uncertainty, 2)}" if uncertainty else ""
+        return f"{_round(si_value, 4)}{unc} {si_unit}"
+    display = {"g/mol": "g/mol", "D": "D", "A**3": "Å³", "A**2": "Å²", "ppm": "ppm",
+               "J/mol": "J/mol", "dimensionless": "", "count": "", "kg/m**3 air": ""}
+    unit_text = display.get(si_unit, si_unit)
+    unc = f" ± {_round(uncertainty, 2)}" if uncertainty else ""
+    return f"{_round(si_value, 4)}{unc} {unit_text}".strip().replace("-", "\u2212")

@@ -1,0 +1,45 @@
+"""`cohesion profile`: one JSON object a line through the datasheet code path."""
+from __future__ import annotations
+
+import io
+import json
+
+import pytest
+
+from builder.cli import main
+from builder.values import KINDS
+
+chemicals_ids = pytest.importorskip("chemicals.identifiers")
+
+
+def _lines(capsys):
+    return [json.loads(line) for line in capsys.readouterr().out.splitlines() if line.strip()]
+
+
+def test_profile_json_object(capsys):
+    assert main(["profile", "CCO", "--json"]) == 0
+    (obj,) = _lines(capsys)
+    ref = chemicals_ids.search_chemical("64-17-5")  # chemicals 1.5.2 identifier database
+    assert obj["input"] == "CCO" and obj["smiles"] == "CCO"
+    assert obj["formula"] == ref.formula and obj["inchikey"] == ref.InChI_key
+    assert obj["molar_mass"]["unit"] == "g/mol"
+    assert obj["molar_mass"]["value"] == pytest.approx(ref.MW, rel=2e-4)
+    assert obj["molar_mass"]["provenance"]["kind"] in KINDS
+
+
+def test_bad_smiles_gets_an_error_line_and_exit_1_while_others_print(capsys):
+    assert main(["profile", "CCO", "C1CC", "c1ccccc1", "--json"]) == 1
+    lines = _lines(capsys)
+    assert [o["input"] for o in lines] == ["CCO", "C1CC", "c1ccccc1"]
+    assert "error" in lines[1] and "ring" in lines[1]["error"]
+    assert lines[2]["formula"] == "C6H6"
+
+
+def test_reads_smiles_from_stdin_and_files(capsys, monkeypatch, tmp_path):
+    monkeypatch.setattr("sys.stdin", io.StringIO("CCO ethanol\n# comment\nCC(C)=O\n"))
+    assert main(["profile", "-", "--json"]) == 0
+    assert [o["formula"] for o in _lines(capsys)] == ["C2H6O", "C3H6O"]
+    listing = tmp_path / "list.smi"
+    listing.write_text("CCCC\n", encoding="utf-8")
+    assert main(["profile", str(listing), "--json"]) == 0
+    assert [o["formula"] for o in _lines(capsys)] == ["C4H10"]
