@@ -1,0 +1,170 @@
+"""Tests for builder.chem.handling and builder/data/handling_rules.yaml."""
+
+from __future__ import annotations
+
+import pytest
+import yaml
+
+from builder.chem import handling
+from builder.chem.handling import RulesError, evaluate_rules, load_rules, validate_rules
+
+C = 273.15
+
+# Toluene facts: IEC flash point 277.15 K, Tb 383.75 K (chemicals), GHS cat 2,
+# M 92.14 g/mol -> 3.18 x air, density 867 kg/m3, logP 2.73 (from memory),
+# hydrocarbon held together by dispersion; a store assumed to reach 40 degC.
+TOLUENE = {
+    "flammable_category": 2,
+    "flash_point": 277.15,
+    "boiling_point": 383.75,
+    "store_max_temperature": 40.0 + C,
+    "store_max_temperature_basis": "assumed default",
+    "vapor_density_ratio": 3.18,
+    "dominant_force": "dispersion",
+    "is_hydrocarbon": True,
+    "density": 867.0,
+    "log_p": 2.73,
+}
+
+
+def ids(facts):
+    return [n.id for n in evaluate_rules(facts)]
+
+
+def test_packaged_rules_load_and_cover_required_topics():
+    rules = load_rules()
+    names = {r.id for r in rules}
+    assert {"flammable-storage-high", "flammable-storage", "pressure-build-up",
+            "vapor-heavier-than-air", "static-accumulator", "floats-on-water",
+            "store-at-or-above-flash-point"} <= names
+    assert all(r.source and r.severity in handling.SEVERITIES for r in rules)
+
+
+def test_toluene_notes_in_stable_order():
+    notes = evaluate_rules(TOLUENE)
+    assert [n.id for n in notes] == [
+        "flammable-storage-high", "store-at-or-above-flash-point",
+        "static-accumulator", "vapor-heavier-than-air", "floats-on-water",
+    ]
+    assert [n.severity for n in notes] == ["high", "high", "medium", "info", "info"]
+    text = {n.id: n.text for n in notes}
+    assert "category 2" in text["flammable-storage-high"]
+    assert "40 °C (assumed default)" in text["store-at-or-above-flash-point"]
+    assert "flash point (4 °C)" in text["store-at-or-above-flash-point"]
+    assert "3.18 times" in text["vapor-heavier-than-air"]
+    assert "867 kg/m³" in text["floats-on-water"]
+    assert "Bond and earth" in text["static-accumulator"]
+    assert evaluate_rules(TOLUENE) == notes  # deterministic
+
+
+def test_unknown_facts_never_fire():
+    assert evaluate_rules({}) == []
+    assert ids({"flammable_category": None, "flash_point": None}) == []
+    # A comparison against an unknown reference is unknown, not false-then-negated.
+    assert "pressure-build-up" not in ids({"boiling_point": 300.0})
+
+
+def test_not_of_unknown_stays_unknown():
+    rules = validate_rules({"version": 1, "rules": [{
+        "id": "not-test", "when": {"not": {"field": "density", "lt": 1000.0}},
+        "text": "dense", "severity": "info", "source": "test"}]})
+    assert evaluate_rules({}, rules) == []
+    assert [n.id for n in evaluate_rules({"density": 1200.0}, rules)] == ["not-test"]
+    assert evaluate_rules({"density": 800.0}, rules) == []
+
+
+def test_pressure_build_up_margin():
+    base = {"store_max_temperature": 40.0 + C, "store_max_temperature_basis": "stated"}
+    # Diethyl ether, bp 34.6 degC: below the store maximum.
+    assert "pressure-build-up" in ids({**base, "boiling_point": 34.6 + C})
+    # Within the 5 K margin, and just outside it.
+    assert "pressure-build-up" in ids({**base, "boiling_point": 45.0 + C})
+    assert "pressure-build-up" not in ids({**base, "boiling_point": 45.2 + C})
+    text = evaluate_rules({**base, "boiling_point": 34.6 + C})[0].text
+    assert "Boils at 35 °C" in text and "40 °C, stated" in text
+
+
+def test_flammable_categories():
+    assert ids({"flammable_category": 1}) == ["flammable-storage-high"]
+    assert ids({"flammable_category": 3}) == ["flammable-storage"]
+    assert ids({"flammable_category": 4}) == []
+
+
+def test_static_rule_needs_hydrocarbon_or_low_conductivity():
+    for force in ("dispersion", "hydrogen-bonding"):
+        assert "static-accumulator" not in ids({"dominant_force": force, "is_hydrocarbon": False})
+    # IEC TS 60079-32-1: <= 50 pS/m is an accumulator.
+    assert "static-accumulator" in ids({"electrical_conductivity": 50e-12})
+    assert "static-accumulator" not in ids({"electrical_conductivity": 1e-6})
+    # Hydrocarbon with unknown force: unknown, so no note.
+    assert "static-accumulator" not in ids({"is_hydrocarbon": True})
+
+
+def test_floats_on_water():
+    assert "floats-on-water" in ids({"density": 790.0, "water_miscible": False})
+    assert "floats-on-water" not in ids({"density": 789.0, "water_miscible": True})  # ethanol
+    assert "floats-on-water" not in ids({"density": 1330.0, "log_p": 1.25})  # dichloromethane
+    assert "floats-on-water" not in ids({"density": 790.0})  # miscibility unknown
+
+
+def test_large_numbers_render_readably():
+    notes = evaluate_rules({"vapor_hazard_ratio": 1869.7})
+    assert "about 1,870 times" in notes[0].text
+
+
+def test_fact_checks():
+    with pytest.raises(ValueError, match="unknown fact 'flashpoint'"):
+        evaluate_rules({"flashpoint": 300.0})
+    with pytest.raises(ValueError, match="not of type int"):
+        evaluate_rules({"flammable_category": "2"})
+    with pytest.raises(ValueError, match="not of type bool"):
+        evaluate_rules({"is_hydrocarbon": 1})
+
+
+def _rule(**over):
+    rule = {"id": "x", "when": {"field": "density", "lt": 1000.0}, "text": "t",
+            "severity": "info", "source": "s"}
+    rule.update(over)
+    return {"version": 1, "rules": [rule]}
+
+
+@pytest.mark.parametrize("data, fragment", [
+    (_rule(colour="red"), "unknown field(s) ['colour']"),
+    (_rule(when={"field": "density", "lte": 1.0}), "need exactly one operator"),
+    (_rule(when={"field": "densty", "lt": 1.0}), "unknown fact 'densty'"),
+    (_rule(when={"field": "density", "lt": "heavy"}), "is not a float"),
+    (_rule(when={"field": "dominant_force", "gt": "dipole"}), "needs a number"),
+    (_rule(when={"all": []}), "non-empty list"),
+    (_rule(when={"field": "density", "lt": {"field": "log_p", "mul": 2}}), "reference needs"),
+    (_rule(severity="danger"), "severity"),
+    (_rule(id="Bad_Id"), "lower-case"),
+    (_rule(text="{density:.2f}"), "no format spec"),
+    (_rule(text="{density|degF}"), "unknown filter"),
+    (_rule(text="{nope}"), "not a known fact"),
+    (_rule(source=""), "source"),
+    ({"version": 2, "rules": []}, "unsupported 2"),
+    ({"rules": []}, "exactly 'version' and 'rules'"),
+])
+def test_validation_errors_are_clear(data, fragment):
+    with pytest.raises(RulesError) as info:
+        validate_rules(data, "rules.yaml")
+    assert fragment in str(info.value)
+    assert str(info.value).startswith("rules.yaml: ")
+
+
+def test_all_problems_reported_at_once(tmp_path):
+    data = {"version": 1, "rules": [_rule(severity="x")["rules"][0], _rule(id="x")["rules"][0]]}
+    path = tmp_path / "r.yaml"
+    path.write_text(yaml.safe_dump(data), encoding="utf-8")
+    with pytest.raises(RulesError) as info:
+        load_rules(path)
+    assert len(info.value.problems) == 2
+    assert any("duplicate id" in p for p in info.value.problems)
+
+
+def test_no_code_execution_from_rules(tmp_path):
+    path = tmp_path / "r.yaml"
+    text = "version: 1\nrules: !!python/object/apply:os.system ['true']\n"
+    path.write_text(text, encoding="utf-8")
+    with pytest.raises(RulesError, match="not valid YAML"):
+        load_rules(path)
