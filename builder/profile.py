@@ -5,29 +5,15 @@ and returns a JSON-ready dict: identity plus every derived value with provenance
 """
 from __future__ import annotations
 
-from .derive import Derived, derive_entry
+from .derive import derive_entry
 from .model import Entry, frozen_map
+from .serialize import profile_json
 from .structure import parse_smiles
 from .values import Value
-
-#: derived values reported at the top level of the profile object, in this order
-TOP_LEVEL = ("molar_mass", "electron_count")
-
 
 def profile_entry(smiles: str, given: dict[str, Value] | None = None) -> Entry:
     return Entry(id="profile", path="<command line>", name=smiles, smiles=smiles,
                  properties=frozen_map(sorted((given or {}).items())))
-
-
-def derived_to_json(d: Derived) -> dict:
-    """The profile object of one derived entry."""
-    ident = d.identity
-    out: dict = {"smiles": ident.smiles, "formula": ident.formula, "inchi": ident.inchi,
-                 "inchikey": ident.inchikey} if ident else {}
-    for name in TOP_LEVEL:
-        if d.get(name) is not None:
-            out[name] = d.get(name).as_dict()
-    return out
 
 
 def profile(smiles: str, given: dict[str, Value] | None = None) -> dict:
@@ -36,4 +22,4 @@ def profile(smiles: str, given: dict[str, Value] | None = None) -> dict:
     if mol is None:
         return {"input": smiles, "error": f"SMILES does not parse: {reason}"}
     derived = derive_entry(profile_entry(smiles, given))
-    return {"input": smiles, **derived_to_json(derived)}
+    return {"input": smiles, **profile_json(derived)}

@@ -39,19 +39,37 @@ class _Capture(logging.Handler):
                 self.lines.append(line)
 
 
-def parse_smiles(smiles: str):
-    """Return ``(mol, None)`` or ``(None, reason)`` with RDKit's own first complaint."""
+def _syntax_reason(smiles: str) -> str:
+    """RDKit's own words for a SMILES it cannot read (its error log, switched on for the call)."""
+    was_enabled = "rdApp.error:enabled" in rdBase.LogStatus()
+    rdBase.EnableLog("rdApp.error")
     capture = _Capture()
     _RDKIT_LOG.addHandler(capture)
     try:
-        mol = Chem.MolFromSmiles(smiles)
+        Chem.MolFromSmiles(smiles, sanitize=False)
     finally:
         _RDKIT_LOG.removeHandler(capture)
-    if mol is None:
-        reason = capture.lines[0] if capture.lines else "not a valid SMILES string"
-        return None, reason.replace("SMILES Parse Error: ", "")
-    if mol.GetNumAtoms() == 0:
+        if not was_enabled:
+            rdBase.DisableLog("rdApp.error")
+    reason = capture.lines[0] if capture.lines else "not a valid SMILES string"
+    return reason.replace("SMILES Parse Error: ", "")
+
+
+def parse_smiles(smiles: str):
+    """Return ``(mol, None)`` or ``(None, reason)`` with RDKit's own first complaint."""
+    with rdBase.BlockLogs():
+        raw = Chem.MolFromSmiles(smiles, sanitize=False)
+    if raw is None:
+        return None, _syntax_reason(smiles)
+    if raw.GetNumAtoms() == 0:
         return None, "the SMILES holds no atoms"
+    problems = Chem.DetectChemistryProblems(raw)
+    if problems:
+        return None, problems[0].Message()
+    with rdBase.BlockLogs():
+        mol = Chem.MolFromSmiles(smiles)
+    if mol is None:
+        return None, "RDKit could not sanitize the structure"
     return mol, None
 
 

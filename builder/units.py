@@ -50,6 +50,20 @@ DIMENSIONS: dict[str, Dimension] = {
     "fraction": Dimension("fraction", "dimensionless", "3.3 %"),
     "ratio": Dimension("ratio", "dimensionless", "1.361"),
     "mass_concentration": Dimension("mass concentration", "kg/m**3", "20 mg/m3"),
+    # the chemistry exception: molar masses stay in g/mol, as every reference gives them
+    "molar_mass": Dimension("molar mass", "g/mol", "46.07 g/mol"),
+}
+
+#: common spellings of each dimension's units, for the JSON Schema (editor completion and checks).
+#: The loader accepts any unit pint reads; every spelling here must parse (tests/test_schema.py).
+UNIT_SPELLINGS: dict[str, tuple[str, ...]] = {
+    "temperature": ("°C", "degC", "K", "°F", "degF"),
+    "pressure": ("Pa", "hPa", "kPa", "MPa", "bar", "mbar", "atm", "mmHg", "torr", "psi"),
+    "density": ("g/cm3", "g/cm³", "g/mL", "g/ml", "kg/m3", "kg/m³", "kg/L", "g/L"),
+    "fraction": ("%", "ppm"),
+    "ratio": (),
+    "mass_concentration": ("g/L", "mg/L", "mg/mL", "g/mL", "mg/m3", "kg/m3", "g/cm3"),
+    "molar_mass": ("g/mol", "kg/mol"),
 }
 
 #: dimensionless units kept inside as scaled numbers (a fraction of 2e-5 is kept as 20 ppm)
@@ -135,6 +149,10 @@ def to_unit(si_value: float, si_unit: str, unit: str) -> float:
 def _round(x: float, digits: int) -> str:
     if x == 0 or not math.isfinite(x):
         return f"{x:g}"
+    if 1e4 <= abs(x) < 1e9:
+        # large numbers in plain digits with thin-space groups: 28 690, not 2.869 × 10^4
+        rounded = round(x, digits - 1 - int(math.floor(math.log10(abs(x)))))
+        return f"{rounded:,.0f}".replace(",", "\u2009")
     text = f"{x:.{digits}g}"
     if "e" in text:
         mantissa, exp = text.split("e")
@@ -162,8 +180,14 @@ def format_value(si_value: float, si_unit: str, uncertainty: float | None = None
     if si_unit in FRACTION_SCALE:
         unc = f" ± {_round(uncertainty, 2)}" if uncertainty else ""
         return f"{_round(si_value, 4)}{unc} {si_unit}"
+    if si_unit == "K delta":
+        unc = f" ± {uncertainty:.0f}" if uncertainty else ""
+        return f"{si_value:+.1f}{unc} K".replace("-", "\u2212")
     display = {"g/mol": "g/mol", "D": "D", "A**3": "Å³", "A**2": "Å²", "ppm": "ppm",
-               "J/mol": "J/mol", "dimensionless": "", "count": "", "kg/m**3 air": ""}
+               "dimensionless": "", "count": ""}
+    if si_unit == "J/mol":
+        unc = f" ± {uncertainty / 1000.0:.1f}" if uncertainty else ""
+        return f"{si_value / 1000.0:.1f}{unc} kJ/mol"
     unit_text = display.get(si_unit, si_unit)
     unc = f" ± {_round(uncertainty, 2)}" if uncertainty else ""
     return f"{_round(si_value, 4)}{unc} {unit_text}".strip().replace("-", "\u2212")

@@ -87,6 +87,26 @@ class Value:
         return out
 
 
+@dataclass(frozen=True)
+class Label:
+    """A classification in words (a category, a band, a force class) with its provenance."""
+
+    text: str
+    provenance: Provenance
+    #: a machine-readable form where there is one (e.g. the category number)
+    code: int | str | None = None
+
+    @property
+    def kind(self) -> str:
+        return self.provenance.kind
+
+    def as_dict(self) -> dict:
+        out = {"text": self.text, "provenance": self.provenance.as_dict()}
+        if self.code is not None:
+            out["code"] = self.code
+        return out
+
+
 def _clean(x: float) -> float:
     """Round to 10 significant digits so exports are stable across platforms."""
     return float(f"{x:.10g}")
