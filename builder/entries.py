@@ -302,6 +302,17 @@ def load_entry(path: str, text: str, sources: dict, locations: dict) -> tuple[En
     cas = r.text(data, ("cas",))
     if cas is not None and (problem := cas_problem(cas)):
         r.error(("cas",), problem)
+    formula = r.text(data, ("formula",))
+    if formula is not None and not re.match(fmt.FORMULA_PATTERN, formula):
+        r.error(("formula",), f"{formula!r} is not a molecular formula", "e.g. C2H6O")
+    molar_mass = None
+    if data.get("molar_mass") is not None:
+        q = r.quantity(data["molar_mass"], ("molar_mass",), "molar_mass", 0.0, label="molar_mass")
+        if q is not None:
+            if q[0] <= 0:
+                r.error(("molar_mass",), "molar_mass must be above zero")
+            else:
+                molar_mass = q[0]
     hazards = r.text_list(data, ("hazard_statements",))
     for i, code in enumerate(hazards):
         if not re.match(fmt.HAZARD_PATTERN, code):
@@ -326,7 +337,7 @@ def load_entry(path: str, text: str, sources: dict, locations: dict) -> tuple[En
         return None, r.problems
     entry = Entry(entry_id, path, name, etype, r.text_list(data, ("synonyms",)), cas, smiles, hazards,
                   r.text(data, ("notes",)), catalog, frozen_map(_in_format_order(properties)), antoine,
-                  frozen_map(lines))
+                  frozen_map(lines), declared_formula=formula, declared_molar_mass=molar_mass)
     return entry, r.problems
 
 
@@ -345,14 +356,16 @@ def _read_catalog(r: _Reader, data, locations) -> CatalogInfo:
             close = difflib.get_close_matches(loc, list(locations), n=1)
             r.error(("catalog", "locations", i), f"unknown location '{loc}'",
                     f"did you mean '{close[0]}'?" if close else "add it to entries/locations.yaml")
-    tmax = None
-    if data.get("max_store_temperature") is not None:
-        q = r.quantity(data["max_store_temperature"], ("catalog", "max_store_temperature"), "temperature", 0.0,
-                       label="max_store_temperature")
-        if q:
-            tmax = Value(q[0], "K", Provenance("rule", method="site-store-rating", note="stated in the entry"))
-    return CatalogInfo(r.text(data, ("catalog", "code")), locs, tmax, r.text(data, ("catalog", "container")),
-                       r.text(data, ("catalog", "owner")))
+    temps = {}
+    for key, method in (("max_store_temperature", "site-store-rating"), ("process_temperature", "site-process")):
+        if data.get(key) is not None:
+            q = r.quantity(data[key], ("catalog", key), "temperature", 0.0, label=key)
+            if q:
+                temps[key] = Value(q[0], "K", Provenance("rule", method=method, note="stated in the entry"))
+    return CatalogInfo(code=r.text(data, ("catalog", "code")), locations=locs,
+                       max_store_temperature=temps.get("max_store_temperature"),
+                       process_temperature=temps.get("process_temperature"),
+                       container=r.text(data, ("catalog", "container")), owner=r.text(data, ("catalog", "owner")))
 
 
 def _read_file(path: Path, shown: str) -> tuple[str | None, list[Diagnostic]]:

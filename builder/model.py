@@ -76,6 +76,7 @@ class CatalogInfo:
     locations: tuple[str, ...] = ()
     max_store_temperature: Value | None = None
     container: str | None = None
+    process_temperature: Value | None = None
     owner: str | None = None
 
 
@@ -97,6 +98,9 @@ class Entry:
     antoine: Antoine | None = None
     #: "properties.boiling_point" style key path → (line, col), for later warnings
     lines: Mapping[str, tuple[int, int]] = field(default_factory=frozen_map)
+    #: identity as the entry declares it (``formula``, ``molar_mass`` in g/mol); checked against the SMILES
+    declared_formula: str | None = None
+    declared_molar_mass: float | None = None
 
     def line_of(self, dotted: str) -> tuple[int, int]:
         while dotted:

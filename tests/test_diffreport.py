@@ -1,0 +1,108 @@
+"""The change report (builder/diffreport.py) on a temporary git repository holding the demo entries."""
+from __future__ import annotations
+
+import json
+import shutil
+import subprocess
+
+import pytest
+
+from builder.cli import main
+from builder.diffreport import change_report, default_base, markdown
+from conftest import DEMO
+
+pytestmark = pytest.mark.skipif(shutil.which("git") is None, reason="needs git")
+
+
+def _git(repo, *args):
+    return subprocess.run(["git", "-C", str(repo), "-c", "user.name=Test", "-c", "user.email=test@example.invalid",
+                           *args], check=True, capture_output=True, text=True).stdout
+
+
+def _edit(path, old, new):
+    text = path.read_text(encoding="utf-8")
+    assert old in text, (path, old)
+    path.write_text(text.replace(old, new, 1), encoding="utf-8")
+
+
+@pytest.fixture(scope="module")
+def repo(tmp_path_factory):
+    """main: the demo entries; branch 'edits': three edits committed; working tree: a broken entry more."""
+    root = tmp_path_factory.mktemp("repo")
+    shutil.copytree(DEMO, root / "entries", ignore=shutil.ignore_patterns("*.json"))
+    _git(root, "init", "-q", "-b", "main")
+    _git(root, "add", "entries")
+    _git(root, "commit", "-q", "-m", "demo entries")
+    _git(root, "checkout", "-q", "-b", "edits")
+    entries = root / "entries"
+    _edit(entries / "toluene.yaml", "value: 383.75 K", "value: 383.75 °C")  # a unit slip
+    _edit(entries / "n-hexane.yaml", "smiles: 'CCCCCC'", "smiles: 'CCCCCO'")  # wrong structure
+    _edit(entries / "ethanol.yaml", "value: 12.0 °C", "value: 30.0 °C")  # flash point
+    _git(root, "commit", "-q", "-am", "edits")
+    (entries / "broken.yaml").write_text("name: Broken\nsmiles: CCO\nproperties:\n  boiling_point:\n"
+                                         "    value: 78 kPa\n    source: crc-95\n", encoding="utf-8")
+    return root
+
+
+@pytest.fixture(scope="module")
+def report(repo):
+    return change_report(repo / "entries")  # merge base with main → working tree
+
+
+def _rows(report, entry_id):
+    return {key: (old, new) for key, old, new in report.changed[entry_id]}
+
+
+def test_default_base_is_the_merge_base_with_main(repo):
+    assert default_base(repo) == _git(repo, "rev-parse", "main").strip()
+
+
+def test_unit_slip_moves_the_chosen_boiling_point_and_the_band(report):
+    rows = _rows(report, "toluene")
+    old, new = rows["stated:boiling_point"]
+    assert "110.6 °C" in old and "383.8 °C" in new
+    old, new = rows["boiling_point"]
+    assert "110.6 °C" in old and "383.8 °C" in new and "(literature)" in new
+    old, new = rows["volatility_band"]  # COSHH: bp 50-150 °C medium, above 150 °C low
+    assert old.startswith("medium") and new.startswith("low")
+
+
+def test_structure_change_moves_the_force_class_and_the_estimate(report):
+    rows = _rows(report, "n-hexane")
+    assert rows["smiles"] == ("CCCCCC", "CCCCCO")
+    assert rows["dominant_force"] == ("London dispersion", "hydrogen bonding")
+    assert rows["formula"] == ("C6H14", "C5H12O")
+    old, new = rows["boiling_point_estimate"]
+    assert old != new and "(estimated)" in new
+
+
+def test_flash_point_change_moves_the_category(report):
+    rows = _rows(report, "ethanol")
+    assert set(rows) >= {"stated:flash_point", "flash_point", "flammable_category"}
+    old, new = rows["flammable_category"]  # GHS 2.6: FP < 23 °C and IBP > 35 °C → 2; 23-60 °C → 3
+    assert old.startswith("Category 2") and new.startswith("Category 3")
+
+
+def test_unchanged_entries_are_not_listed_and_broken_ones_are_reported(report):
+    assert "acetone" not in report.changed and "dichloromethane" not in report.changed
+    assert report.not_compared == {"broken": "does not load at working tree:entries"}
+    assert any("'kPa' is not a unit of temperature" in d.message for d in report.problems["working tree:entries"])
+    text = markdown(report)
+    assert "| dominant force | London dispersion | hydrogen bonding |" in text
+    assert "#### `ethanol` — Ethanol" in text and "`broken`: does not load" in text
+
+
+def test_cli_json_between_two_revisions(repo, capsys, monkeypatch):
+    monkeypatch.chdir(repo)
+    assert main(["diff", "main", "edits", "--json"]) == 0
+    data = json.loads(capsys.readouterr().out)
+    changed = {c["id"]: {x["field"]: x for x in c["changes"]} for c in data["changed"]}
+    assert {"ethanol", "n-hexane", "toluene"} <= set(changed)
+    # the others move only through their cross-links (toluene now boils far from its old neighbours)
+    assert all(set(rows) == {"links"} for eid, rows in changed.items() if eid not in ("ethanol", "n-hexane", "toluene"))
+    assert any("near-bp toluene" in rows["links"]["old"] and "near-bp toluene" not in rows["links"]["new"]
+               for rows in changed.values() if "links" in rows and rows["links"]["old"] and rows["links"]["new"])
+    assert data["added"] == [] and data["removed"] == [] and data["not_compared"] == []
+    hexane = changed["n-hexane"]
+    assert hexane["dominant_force"]["old"] == "London dispersion"
+    assert main(["diff", "no-such-revision", "--json"]) == 2
