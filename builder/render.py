@@ -6,6 +6,7 @@ site works from a web server and straight from disk (file://).
 """
 from __future__ import annotations
 
+import json
 import posixpath
 from pathlib import Path
 
@@ -13,10 +14,11 @@ import jinja2
 from markupsafe import Markup
 
 from . import __version__
+from .derive_forces import FORCE_WORDS
 from .entry_format import PROPERTIES
 from .methods import METHODS
 from .units import format_value
-from .values import KINDS, Value
+from .values import KINDS, Label
 
 TEMPLATES = Path(__file__).resolve().parent.parent / "templates"
 
@@ -26,6 +28,19 @@ KIND_MARKS = {"measured": "M", "literature": "L", "supplier": "S", "computed": "
 CAUTION = ("For internal reference only. This catalog summarises properties of materials held on site; "
            "it is not a safety data sheet. The supplier's safety data sheet (SDS), local regulations and "
            "the site's safety rules take precedence.")
+
+
+#: methods page id → key of the stored boiling-point validation results
+BOILING_TABLE_METHODS = {"tb-joback-sb-trees": "joback_sb_trees", "tb-joback-stein-brown": "joback_stein_brown",
+                         "tb-joback": "joback"}
+VALIDATION_PATH = Path(__file__).resolve().parent / "data" / "boiling_validation.json"
+
+
+def _boiling_validation() -> dict | None:
+    """The stored results of ``python -m builder.fit_boiling`` (not typed in by hand)."""
+    if not VALIDATION_PATH.exists():
+        return None
+    return json.loads(VALIDATION_PATH.read_text(encoding="utf-8"))
 
 
 def environment(templates: Path = TEMPLATES) -> jinja2.Environment:
@@ -42,13 +57,47 @@ def environment(templates: Path = TEMPLATES) -> jinja2.Environment:
     env.filters["formula"] = formula_markup
     env.globals.update(KIND_MARKS=KIND_MARKS, KINDS=KINDS, CAUTION=CAUTION, METHODS=METHODS,
                        version=__version__, property_label=property_label, condition_text=condition_text,
-                       temperature_text=temperature_text)
+                       temperature_text=temperature_text, FORCE_WORDS=FORCE_WORDS, first_sentence=first_sentence,
+                       BOILING_TABLE_METHODS=BOILING_TABLE_METHODS, is_label=lambda v: isinstance(v, Label), boiling_validation=_boiling_validation())
     return env
+
+
+#: how derived values are named on the pages
+VALUE_LABELS = {
+    "molar_mass": "Molar mass",
+    "electron_count": "Electrons per molecule",
+    "boiling_point_estimate": "Boiling point, estimated from structure",
+    "boiling_point_residual": "Stated minus estimated boiling point",
+    "flash_point_estimate": "Flash point, estimated",
+    "vapor_pressure_20C": "Vapor pressure at 20 °C",
+    "vapor_pressure_25C": "Vapor pressure at 25 °C",
+    "enthalpy_of_vaporization": "Enthalpy of vaporization at the boiling point",
+    "saturated_vapor_concentration_20C": "Saturated vapor concentration at 20 °C",
+    "vapor_density_relative": "Vapor density (air = 1)",
+    "vapor_hazard_ratio": "Vapor hazard ratio (saturated concentration / exposure limit)",
+    "store_temperature": "Highest store temperature",
+    "process_temperature": "Process temperature",
+    "polarizability": "Polarizability",
+    "dipole_moment": "Dipole moment",
+    "hbond_donors": "Hydrogen-bond donors (H on N, O, F)",
+    "hbond_acceptors": "Hydrogen-bond acceptors (N, O, F lone pairs)",
+    "shape_npr1": "Shape: moment ratio I1/I3",
+    "shape_npr2": "Shape: moment ratio I2/I3",
+    "surface_area": "Surface area",
+    "force_excess": "Force excess over the n-alkane of equal mass",
+    "dominant_force": "Dominant force",
+    "flammable_category": "GHS flammable liquid category",
+    "flammable_category_range": "Possible categories",
+    "volatility_band": "Volatility band at 20 °C",
+    "volatility_band_process": "Volatility band at the process temperature",
+}
 
 
 def property_label(name: str) -> str:
     spec = PROPERTIES.get(name)
-    return spec.label if spec else name.replace("_", " ").capitalize()
+    if spec:
+        return spec.label
+    return VALUE_LABELS.get(name, name.replace("_", " ").capitalize())
 
 
 def temperature_text(kelvin: float) -> str:
@@ -80,12 +129,30 @@ def relative(page: str, target: str) -> str:
     return posixpath.relpath(target, posixpath.dirname(page) or ".") + anchor
 
 
-def value_link(value: Value) -> str:
+def value_link(value) -> str:
     """Site path of the source or method a value's tag links to."""
     prov = value.provenance
     if prov.source:
         return f"sources.html#src-{prov.source}"
     return f"methods.html#m-{prov.method}"
+
+
+def revision_text(revision, entry) -> str:
+    """'entry revision 1a2b3c4 (2026-11-30)' from git, or a plain statement that there is none."""
+    if revision is None or revision.commit is None:
+        return "entry revision: not in a git repository"
+    name = entry.path.rsplit("/", 1)[-1]
+    found = revision.per_file.get(name)
+    if not found:
+        return "entry revision: not yet committed"
+    short, date = found
+    return f"entry revision {short} ({date[:10]})"
+
+
+def first_sentence(text: str) -> str:
+    """The first sentence of a note, for the small space of a shelf card."""
+    head, sep, _ = text.partition(". ")
+    return head + "." if sep else text
 
 
 class Writer:
@@ -100,7 +167,9 @@ class Writer:
         def url(target: str) -> str:
             return relative(path, target)
 
-        text = self.env.get_template(template).render(url=url, value_link=value_link, page_path=path, **context)
+        root = relative(path, "index.html")[: -len("index.html")]
+        text = self.env.get_template(template).render(url=url, value_link=value_link, page_path=path, root=root,
+                                                      **context)
         self.text(path, text)
 
     def text(self, path: str, text: str) -> None:

@@ -1,6 +1,8 @@
 """Shared fixtures: tiny entry folders written on the fly, and the demo catalog path."""
 from __future__ import annotations
 
+import os
+import shutil
 import textwrap
 from pathlib import Path
 
@@ -52,3 +54,28 @@ def make_entries(tmp_path):
         return folder
 
     return make
+
+
+CHROMIUM = shutil.which("chromium") or "/usr/bin/chromium"
+BROWSER_REQUIRED = bool(os.environ.get("COHESION_REQUIRE_BROWSER"))
+
+
+@pytest.fixture(scope="session")
+def browser():
+    """Debian's Chromium driven by Playwright (never a downloaded browser)."""
+    try:
+        from playwright.sync_api import sync_playwright
+    except ImportError:
+        if BROWSER_REQUIRED:
+            pytest.fail("playwright is not installed but COHESION_REQUIRE_BROWSER is set")
+        pytest.skip("playwright is not installed")
+    if not Path(CHROMIUM).exists():
+        if BROWSER_REQUIRED:
+            pytest.fail(f"{CHROMIUM} not found but COHESION_REQUIRE_BROWSER is set")
+        pytest.skip("Debian's chromium is not installed (apt-get install -y chromium)")
+    with sync_playwright() as p:
+        b = p.chromium.launch(executable_path=CHROMIUM, args=[
+            "--disable-gpu", "--disable-background-networking", "--disable-component-update", "--disable-sync",
+            "--no-first-run"])
+        yield b
+        b.close()

@@ -1,0 +1,140 @@
+"""Cross-links on a small synthetic catalog, export round trip, and inert entry text."""
+from __future__ import annotations
+
+import csv
+import io
+import json
+
+import pytest
+
+from builder.entries import load_catalog
+from builder.exports import safe_json
+from builder.links import ch2_difference, cross_links, homologous_series
+from builder.serialize import entry_json
+from builder.site import build, derive_catalog
+
+LITERATURE_BP = "  boiling_point: {{value: '{bp} °C', source: crc-95}}\n"
+
+
+def _entry(name, smiles, bp=None):
+    text = f"name: {name}\nsmiles: '{smiles}'\n"
+    if bp is not None:
+        text += "properties:\n" + LITERATURE_BP.format(bp=bp)
+    return text
+
+
+# boiling points from the CRC Handbook, 95th ed. (as shipped in chemicals 1.5.2), rounded
+SYNTHETIC = {
+    "pentane.yaml": _entry("Pentane", "CCCCC", 36.1),
+    "hexane.yaml": _entry("Hexane", "CCCCCC", 68.7),
+    "heptane.yaml": _entry("Heptane", "CCCCCCC", 98.4),
+    "isopentane.yaml": _entry("2-Methylbutane", "CC(C)CC", 27.8),
+    "neopentane.yaml": _entry("2,2-Dimethylpropane", "CC(C)(C)C", 9.5),
+    "ethanol.yaml": _entry("Ethanol", "CCO", 78.3),
+    "propanol.yaml": _entry("Propan-1-ol", "CCCO", 97.2),
+    "dimethyl-ether.yaml": _entry("Dimethyl ether", "COC", -24.8),
+    "butanone.yaml": _entry("Butanone", "CCC(C)=O", 79.6),
+}
+
+
+@pytest.fixture
+def synthetic(make_entries):
+    catalog, diags = load_catalog(make_entries(SYNTHETIC))
+    assert catalog is not None, [str(d) for d in diags]
+    derived = derive_catalog(catalog)
+    return catalog, derived, cross_links(derived)
+
+
+def _targets(links, relation):
+    return {link.target for link in links if link.relation == relation}
+
+
+def test_isomers_share_a_formula_and_link_both_ways(synthetic):
+    _, _, links = synthetic
+    assert _targets(links["pentane"], "isomer") == {"isopentane", "neopentane"}
+    assert _targets(links["neopentane"], "isomer") == {"pentane", "isopentane"}
+    assert _targets(links["ethanol"], "isomer") == {"dimethyl-ether"}
+    assert _targets(links["dimethyl-ether"], "isomer") == {"ethanol"}
+
+
+def test_homologues_are_same_class_and_ch2_apart(synthetic):
+    _, derived, links = synthetic
+    assert _targets(links["hexane"], "homologue") == {"pentane", "heptane"}
+    assert _targets(links["ethanol"], "homologue") == {"propanol"}
+    assert _targets(links["propanol"], "homologue") == {"ethanol"}
+    # branched isomers are a different structure class from the straight chain
+    assert "isopentane" not in _targets(links["hexane"], "homologue")
+    series = [[d.entry.id for d in s] for s in homologous_series(derived)]
+    assert ["pentane", "hexane", "heptane"] in series
+
+
+def test_similar_size_different_forces_links_show_both_boiling_points(synthetic):
+    _, _, links = synthetic
+    # butanone (72.1 g/mol, dipole-dipole) and pentane (72.2 g/mol, dispersion)
+    contrast = [l for l in links["butanone"] if l.relation == "contrast"]
+    assert "pentane" in {l.target for l in contrast}
+    why = next(l.why for l in contrast if l.target == "pentane")
+    assert "36 °C" in why and "80 °C" in why
+    assert "butanone" in _targets(links["pentane"], "contrast")
+
+
+def test_nearest_boiling_points(synthetic):
+    _, _, links = synthetic
+    assert _targets(links["ethanol"], "near-bp") == {"butanone", "hexane", "propanol"}
+
+
+@pytest.mark.parametrize("a, b, n", [("C5H12", "C6H14", 1), ("C6H14", "C5H12", -1), ("C2H6O", "C4H10O", 2),
+                                     ("C5H12", "C5H12", None), ("C2H6O", "C3H6O", None)])
+def test_ch2_difference(a, b, n):
+    assert ch2_difference(a, b) == n
+
+
+def test_catalog_json_round_trips_the_model(tmp_path, synthetic, make_entries):
+    out = tmp_path / "site"
+    built = build(make_entries(SYNTHETIC), out)
+    data = json.loads((out / "catalog.json").read_text(encoding="utf-8"))
+    assert [e["id"] for e in data["entries"]] == [d.entry.id for d in built.derived]
+    for exported, d in zip(data["entries"], built.derived):
+        for name, value in d.values.items():
+            got = exported["values"][name]
+            assert got["value"] == pytest.approx(value.value, rel=1e-9)
+            assert got["provenance"]["kind"] == value.kind
+            assert (got.get("uncertainty") is None) == (value.uncertainty is None)
+        per_entry = json.loads((out / "data" / f"{d.entry.id}.json").read_text(encoding="utf-8"))
+        assert per_entry["entry"] == exported
+    rows = list(csv.DictReader(io.StringIO((out / "catalog.csv").read_text(encoding="utf-8"))))
+    assert len(rows) == len(built.derived)
+    ethanol = next(r for r in rows if r["id"] == "ethanol")
+    assert float(ethanol["boiling_point_degC"]) == pytest.approx(78.3)
+    assert ethanol["boiling_point_provenance"] == "literature"
+    assert ethanol["dominant_force"] == "hydrogen-bonding"
+
+
+def test_entry_text_cannot_inject_markup_or_script(make_entries, tmp_path):
+    hostile = "Evil </script><script>alert(1)</script> & <b>bold</b>"
+    folder = make_entries({"evil.yaml": f"name: '{hostile}'\nsmiles: CCO\nsynonyms: ['</script><img src=x>']\n"
+                                        "notes: '<iframe src=x></iframe>'\n"})
+    out = tmp_path / "site"
+    build(folder, out)
+    page = (out / "materials" / "evil.html").read_text(encoding="utf-8")
+    assert "<script>alert(1)" not in page and "<iframe" not in page and "<b>bold" not in page
+    assert "&lt;script&gt;alert(1)" in page
+    index_js = (out / "search-index.js").read_text(encoding="utf-8")
+    assert "</script>" not in index_js and "<" not in index_js
+    assert json.loads(index_js.split("=", 1)[1].rstrip().rstrip(";"))[0]["name"] == hostile
+    # the JSON-LD block in the head cannot be closed early either
+    head = page.split("</head>")[0]
+    assert head.count("</script>") == 1
+
+
+def test_safe_json_escapes_html_specials():
+    assert safe_json({"a": "</script>&"}) == '{"a": "\\u003c/script\\u003e\\u0026"}'
+
+
+def test_entry_json_has_every_value_with_provenance(synthetic):
+    _, derived, links = synthetic
+    d = next(x for x in derived if x.entry.id == "ethanol")
+    data = entry_json(d, links["ethanol"])
+    assert data["forces"]["dominant"] == "hydrogen-bonding"
+    assert all("provenance" in v for v in data["values"].values())
+    assert {l["relation"] for l in data["links"]} >= {"isomer", "homologue", "near-bp"}
