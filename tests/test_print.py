@@ -1,0 +1,114 @@
+"""Printouts: every demo datasheet is exactly one page on A4 and on US Letter, shelf-card pages
+hold the stated number of cards, and the text carries the caution and the entry revision.
+
+PDFs come from headless Chromium (Debian's package, through Playwright); pages are counted
+with pypdf.
+"""
+from __future__ import annotations
+
+import io
+import math
+import os
+import re
+
+import pytest
+from pypdf import PdfReader
+
+from builder.cli import main
+from builder.render import CAUTION, revision_text
+from builder.revision import entries_revision
+from builder.site import build
+from conftest import DEMO, ETHANOL
+
+pytestmark = pytest.mark.browser
+
+CARDS_PER_PAGE = 8
+
+
+@pytest.fixture(scope="module")
+def site(tmp_path_factory):
+    out = tmp_path_factory.mktemp("print") / "site"
+    return out, build(DEMO, out)
+
+
+@pytest.fixture(scope="module")
+def printer(browser):
+    context = browser.new_context()
+    page = context.new_page()
+
+    def pdf(url: str, paper: str) -> PdfReader:
+        page.goto(url)
+        page.wait_for_load_state("load")
+        return PdfReader(io.BytesIO(page.pdf(format=paper, print_background=True)))
+
+    yield pdf
+    context.close()
+
+
+def _text(reader: PdfReader) -> str:
+    return re.sub(r"\s+", " ", " ".join(p.extract_text() for p in reader.pages))
+
+
+@pytest.mark.parametrize("paper", ["A4", "Letter"])
+def test_every_datasheet_prints_on_one_page(site, printer, paper):
+    out, built = site
+    revision = entries_revision(DEMO)
+    longest = max(built.derived, key=lambda d: len((DEMO / f"{d.entry.id}.yaml").read_text(encoding="utf-8")))
+    assert longest.entry.id == "2-butoxyethanol"  # the deliberately long demo entry is among those printed
+    for d in built.derived:
+        reader = printer((out / "materials" / f"{d.entry.id}.html").as_uri(), paper)
+        assert len(reader.pages) == 1, f"{d.entry.id} prints on {len(reader.pages)} pages ({paper})"
+        text = _text(reader)
+        assert "it is not a safety data sheet" in text and "take precedence" in text, d.entry.id
+        assert revision_text(revision, d.entry) in text, d.entry.id
+        if d.entry.catalog.code:
+            assert d.entry.catalog.code in text
+
+
+def test_printed_revision_names_a_commit_or_says_there_is_none(site):
+    _, built = site
+    for d in built.derived:
+        line = revision_text(entries_revision(DEMO), d.entry)
+        assert re.fullmatch(r"entry revision [0-9a-f]{7,} \(\d{4}-\d\d-\d\d\)|entry revision: .+", line), line
+
+
+@pytest.mark.parametrize("paper", ["A4", "Letter"])
+def test_shelf_card_pages_hold_eight_cards(site, printer, paper):
+    out, built = site
+    reader = printer((out / "cards" / "all.html").as_uri(), paper)
+    n = len(built.derived)
+    assert len(reader.pages) == math.ceil(n / CARDS_PER_PAGE)
+    codes = [d.entry.catalog.code for d in built.derived]
+    per_page = [sum(code in page.extract_text() for code in codes) for page in reader.pages]
+    assert per_page[:-1] == [CARDS_PER_PAGE] * (len(per_page) - 1)
+    assert sum(per_page) == n
+
+
+def test_store_sheets_print_on_one_page_with_their_materials(site, printer):
+    out, built = site
+    for key in built.catalog.locations:
+        reader = printer((out / "stores" / f"{key}.html").as_uri(), "A4")
+        assert len(reader.pages) == 1, key
+        text = _text(reader)
+        for d in built.derived:
+            if key in d.entry.catalog.locations:
+                assert d.entry.catalog.code in text, (key, d.entry.id)
+        assert "not a safety data sheet" in text
+
+
+def test_print_command_writes_pdfs(make_entries, tmp_path, capsys):
+    folder = make_entries({"ethanol.yaml": ETHANOL})
+    out = tmp_path / "pdf"
+    assert main(["print", "--entries", str(folder), "--out", str(out), "--paper", "a4"]) == 0
+    pdfs = sorted(str(p.relative_to(out)) for p in out.rglob("*.pdf"))
+    assert pdfs == ["a4/cards/all.pdf", "a4/cards/store-a.pdf", "a4/materials/ethanol.pdf", "a4/stores/store-a.pdf"]
+    assert len(PdfReader(out / "a4" / "materials" / "ethanol.pdf").pages) == 1
+    assert CAUTION.split(".")[0] in _text(PdfReader(out / "a4" / "materials" / "ethanol.pdf"))
+
+
+def test_print_without_chromium_says_so(make_entries, tmp_path, capsys, monkeypatch):
+    monkeypatch.setitem(os.environ, "COHESION_CHROMIUM", str(tmp_path / "no-such-chromium"))
+    folder = make_entries({"ethanol.yaml": ETHANOL})
+    assert main(["print", "--entries", str(folder), "--out", str(tmp_path / "pdf")]) == 3
+    assert "headless Chromium was not found" in capsys.readouterr().err
+    assert not (tmp_path / "pdf").exists()
