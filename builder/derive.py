@@ -16,6 +16,7 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from typing import Mapping
 
+from .chem.handling import Note
 from .derive_boiling import boiling_values
 from .derive_fire import Segment, fire_values
 from .derive_forces import Forces, forces_of
@@ -26,19 +27,6 @@ from .values import Label, Provenance, Value, computed
 
 #: store temperature assumed when neither the entry nor its stores state one (K)
 DEFAULT_STORE_TEMPERATURE = 308.15
-
-
-@dataclass(frozen=True)
-class Note:
-    """A handling note with the rule that produced it."""
-
-    id: str
-    text: str
-    severity: str
-    source: str
-
-    def as_dict(self) -> dict:
-        return {"id": self.id, "text": self.text, "severity": self.severity, "source": self.source}
 
 
 @dataclass(frozen=True)
@@ -100,6 +88,6 @@ def derive_entry(entry: Entry, locations: Mapping[str, Location] | None = None) 
     values.update(fire.values)
     labels.update(fire.labels)
     findings += fire.findings
-    notes = tuple(Note(n.id, n.text, n.severity, n.source) for n in fire.notes)
+    notes = tuple(fire.notes)
     return Derived(entry, identity, frozen_map(values), frozen_map(labels), forces, notes, tuple(fire.curve),
                    tuple(findings))

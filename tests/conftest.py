@@ -1,8 +1,10 @@
 """Shared fixtures: tiny entry folders written on the fly, and the demo catalog path."""
 from __future__ import annotations
 
+import importlib.util
 import os
 import shutil
+import sys
 import textwrap
 from pathlib import Path
 
@@ -38,6 +40,16 @@ properties:
     value: 78.3 °C
     source: crc-95
 """
+
+
+def report_volatility():
+    """tests/report_volatility.py (the volatility benchmark, whose helpers tests reuse), imported by path."""
+    if "report_volatility" not in sys.modules:
+        spec = importlib.util.spec_from_file_location("report_volatility", ROOT / "tests" / "report_volatility.py")
+        module = importlib.util.module_from_spec(spec)
+        sys.modules["report_volatility"] = module
+        spec.loader.exec_module(module)
+    return sys.modules["report_volatility"]
 
 
 @pytest.fixture

@@ -61,6 +61,15 @@ from builder.chem.shape import (
     shape_class,
     surface_area,
 )
+from builder.chem.features import (
+    acceptor_atoms,
+    donor_groups,
+    hbond_acceptors,
+    hbond_donors,
+    ionic_reason,
+    largest_fragment,
+    polar_bonds,
+)
 from builder.chem.structure3d import (
     canonical_smiles,
     conformer_ensemble,
@@ -85,23 +94,6 @@ FORCE_EXCESS_NOTABLE_K = 20.0
 """Force excess above which the reasons say polar forces add noticeably [K] (our choice)."""
 
 _DATA = Path(__file__).resolve().parent.parent / "data" / "n_alkanes.json"
-_DONOR = Chem.MolFromSmarts("[#7,#8,#9;!H0]")
-_ACCEPTORS = {
-    "O": Chem.MolFromSmarts("[#8;+0,-1]"),
-    "F": Chem.MolFromSmarts("[#9;+0,-1]"),
-    "N": Chem.MolFromSmarts(
-        "[#7;+0,-1;!$([nX3]);!$([NX3]-[CX3]=[OX1,SX1]);!$([NX3]-[SX4](=O)=O)]"
-    ),
-}
-_PAULING = {  # Pauling electronegativities [2] (values from memory)
-    "H": 2.20, "Li": 0.98, "Be": 1.57, "B": 2.04, "C": 2.55, "N": 3.04, "O": 3.44,
-    "F": 3.98, "Na": 0.93, "Mg": 1.31, "Al": 1.61, "Si": 1.90, "P": 2.19, "S": 2.58,
-    "Cl": 3.16, "K": 0.82, "Ca": 1.00, "Se": 2.55, "Br": 2.96, "Rb": 0.82, "Sr": 0.95,
-    "I": 2.66, "Cs": 0.79, "Ba": 0.89,
-}
-_S_BLOCK_METALS = {"Li", "Na", "K", "Rb", "Cs", "Be", "Mg", "Ca", "Sr", "Ba"}
-_POLAR_BOND_EN = 0.4  # common practice: electronegativity difference of a polar bond
-_IONIC_BOND_EN = 1.7  # common practice: above this a bond is mostly ionic
 
 
 @dataclass(frozen=True)
@@ -139,90 +131,6 @@ class ForceProfile:
             raise ValueError(f"dispersion must come first and dominant last: {self.present}")
         if any(kind not in FORCE_KINDS for kind in self.present):
             raise ValueError(f"unknown force kind in {self.present}; allowed: {FORCE_KINDS}")
-
-
-def hbond_donors(mol: Chem.Mol) -> int:
-    """Count hydrogens bonded to N, O or F (exact, own SMARTS)."""
-    return sum(mol.GetAtomWithIdx(m[0]).GetTotalNumHs() for m in mol.GetSubstructMatches(_DONOR))
-
-
-def hbond_acceptors(mol: Chem.Mol) -> int:
-    """Count N, O and F atoms with a lone pair free to accept an H-bond (own SMARTS).
-
-    Every neutral or anionic O and F counts. N counts unless its lone pair is part of
-    an aromatic ring (pyrrole-type) or delocalised into C=O, C=S or SO2 (amides,
-    thioamides, sulfonamides); cationic N (ammonium, nitro) has none.
-    """
-    return sum(len(mol.GetSubstructMatches(q)) for q in _ACCEPTORS.values())
-
-
-def _acceptor_atoms(mol: Chem.Mol) -> dict[str, int]:
-    counts = {el: len(mol.GetSubstructMatches(q)) for el, q in _ACCEPTORS.items()}
-    return {el: n for el, n in counts.items() if n}
-
-
-def _donor_groups(mol: Chem.Mol) -> dict[str, int]:
-    groups: dict[str, int] = {}
-    for (idx,) in mol.GetSubstructMatches(_DONOR):
-        atom = mol.GetAtomWithIdx(idx)
-        label = f"{atom.GetSymbol()}–H"
-        groups[label] = groups.get(label, 0) + atom.GetTotalNumHs()
-    return groups
-
-
-def _ionic_reason(mol: Chem.Mol) -> str | None:
-    """Return why the substance is ionic, or None (rules in the module docstring)."""
-    fragments = Chem.GetMolFrags(mol, asMols=True)
-    charged = sorted({_ion_label(f) for f in fragments if Chem.GetFormalCharge(f) != 0})
-    if charged and len(fragments) > 1:
-        return f"It is a salt of the ions {', '.join(charged)}, held together by ionic attraction."
-    if charged:
-        return f"It is an ion ({charged[0]}), held by ionic attraction to its counter-ions."
-    for frag in fragments:
-        plus = [a.GetIdx() for a in frag.GetAtoms() if a.GetFormalCharge() > 0]
-        minus = [a.GetIdx() for a in frag.GetAtoms() if a.GetFormalCharge() < 0]
-        distances = Chem.GetDistanceMatrix(frag) if plus and minus else None
-        if distances is not None and min(distances[i][j] for i in plus for j in minus) >= 3:
-            return ("It is a zwitterion: its + and − charges sit on separate groups and "
-                    "attract neighbouring molecules ionically.")
-    for bond in mol.GetBonds():
-        a, b = bond.GetBeginAtom().GetSymbol(), bond.GetEndAtom().GetSymbol()
-        if {a, b} & _S_BLOCK_METALS and a in _PAULING and b in _PAULING \
-                and abs(_PAULING[a] - _PAULING[b]) >= _IONIC_BOND_EN:
-            return (f"The {a}–{b} bond joins an s-block metal to a much more electronegative "
-                    "atom, so it is mainly ionic.")
-    return None
-
-
-def _ion_label(fragment: Chem.Mol) -> str:
-    if fragment.GetNumAtoms() > 1:
-        return Chem.MolToSmiles(fragment)
-    charge = Chem.GetFormalCharge(fragment)
-    magnitude = str(abs(charge)) if abs(charge) > 1 else ""
-    return f"{fragment.GetAtomWithIdx(0).GetSymbol()}{magnitude}{'+' if charge > 0 else '−'}"
-
-
-def _polar_bonds(mol: Chem.Mol) -> list[str]:
-    labels = []
-    for bond in mol.GetBonds():
-        a, b = bond.GetBeginAtom().GetSymbol(), bond.GetEndAtom().GetSymbol()
-        if a in _PAULING and b in _PAULING and abs(_PAULING[a] - _PAULING[b]) >= _POLAR_BOND_EN:
-            first, second = sorted((a, b), key=lambda s: _PAULING[s])
-            symbol = {Chem.BondType.DOUBLE: "=", Chem.BondType.TRIPLE: "≡"}.get(bond.GetBondType(), "–")
-            label = f"{first}{symbol}{second}"
-            if label not in labels:
-                labels.append(label)
-    for atom in mol.GetAtoms():
-        if atom.GetSymbol() in ("N", "O", "F") and atom.GetTotalNumHs():
-            label = f"{atom.GetSymbol()}–H"
-            if label not in labels:
-                labels.append(label)
-    return labels
-
-
-def _largest_fragment(mol: Chem.Mol) -> Chem.Mol:
-    fragments = Chem.GetMolFrags(mol, asMols=True)
-    return max(fragments, key=lambda f: (f.GetNumHeavyAtoms(), f.GetNumAtoms()))
 
 
 def _stereo_dipoles(mol: Chem.Mol) -> tuple[DipoleEstimate, str | None]:
@@ -285,8 +193,8 @@ def force_profile(mol_or_smiles: str | Chem.Mol, boiling_point_K: float | None =
     """
     smiles = canonical_smiles(mol_or_smiles)
     mol = Chem.MolFromSmiles(smiles)
-    main = _largest_fragment(mol)
-    ionic = _ionic_reason(mol)
+    main = largest_fragment(mol)
+    ionic = ionic_reason(mol)
     donors, acceptors = hbond_donors(mol), hbond_acceptors(mol)
     alpha, alpha_note = polarizability(mol)
     n_electrons = electron_count(mol)
@@ -370,7 +278,7 @@ def _reasons(mol: Chem.Mol, ionic: str | None, dipole: DipoleEstimate,
         reasons.append("Its chain-like shape gives a large contact area, which strengthens dispersion.")
     elif shape == "sphere-like" and mol.GetNumHeavyAtoms() > 3:
         reasons.append("Its compact, ball-like shape limits contact area and so dispersion.")
-    bonds = _polar_bonds(mol)
+    bonds = polar_bonds(mol)
     if dipole.value_D is not None:
         moment = f"{dipole.value_D:.1f} ± {dipole.uncertainty_D:.1f} D"
         if dipole.value_D > POLAR_THRESHOLD_D:
@@ -386,8 +294,8 @@ def _reasons(mol: Chem.Mol, ionic: str | None, dipole: DipoleEstimate,
             reasons.append(f"It has no polar bonds (net moment about {moment}).")
     if stereo_reason:
         reasons.append(stereo_reason)
-    groups = _donor_groups(mol)
-    accepting = _acceptor_atoms(mol)
+    groups = donor_groups(mol)
+    accepting = acceptor_atoms(mol)
     acc_text = " and ".join(_count(n, f"{el} atom") for el, n in accepting.items())
     if donors and acceptors:
         don_text = " and ".join(f"{g} ({n} H)" for g, n in groups.items())

@@ -110,6 +110,9 @@ class Note:
     severity: str
     source: str
 
+    def as_dict(self) -> dict:
+        return {"id": self.id, "text": self.text, "severity": self.severity, "source": self.source}
+
 
 @dataclass(frozen=True)
 class Rule:

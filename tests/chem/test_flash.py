@@ -2,25 +2,12 @@
 
 from __future__ import annotations
 
-import importlib.util
-import sys
-from pathlib import Path
 
 import pytest
 
+from conftest import report_volatility
+
 from builder.chem import flash
-
-
-def _report():
-    """Import tests/report_volatility.py (the shared benchmark) by path."""
-    if "report_volatility" in sys.modules:
-        return sys.modules["report_volatility"]
-    path = Path(__file__).resolve().parents[1] / "report_volatility.py"
-    spec = importlib.util.spec_from_file_location("report_volatility", path)
-    module = importlib.util.module_from_spec(spec)
-    sys.modules["report_volatility"] = module
-    spec.loader.exec_module(module)
-    return module
 
 
 def test_catoire_naudet_hand_calculation():
@@ -64,14 +51,14 @@ def test_estimate_routes_and_uncertainties():
 def iec_errors():
     pytest.importorskip("chemicals")
     pytest.importorskip("rdkit")
-    return _report().flash_errors("IEC 60079-20-1 (2010)")
+    return report_volatility().flash_errors("IEC 60079-20-1 (2010)")
 
 
 @pytest.fixture(scope="module")
 def serat_errors():
     pytest.importorskip("chemicals")
     pytest.importorskip("rdkit")
-    return _report().flash_errors("Serat DIPPR (2017)")
+    return report_volatility().flash_errors("Serat DIPPR (2017)")
 
 
 # Measured MAE against IEC 60079-20-1 (reference Tb): 5.64, 8.12, 12.93 K;
@@ -82,7 +69,7 @@ def serat_errors():
     ("satyanarayana_rao", 15.0, 250),
 ])
 def test_flash_mae_against_iec(iec_errors, route, bound, n_min):
-    s = _report().summary(iec_errors[route])
+    s = report_volatility().summary(iec_errors[route])
     assert s["n"] >= n_min
     assert s["mae"] < bound
 
@@ -94,7 +81,7 @@ def test_flash_mae_against_iec(iec_errors, route, bound, n_min):
     ("satyanarayana_rao", 16.0),
 ])
 def test_flash_mae_against_serat(serat_errors, route, bound):
-    s = _report().summary(serat_errors[route])
+    s = report_volatility().summary(serat_errors[route])
     assert s["n"] >= 500
     assert s["mae"] < bound
 
@@ -105,4 +92,4 @@ def test_flash_mae_against_serat(serat_errors, route, bound):
     ("satyanarayana_rao", flash.U_SATYANARAYANA_RAO),
 ])
 def test_declared_uncertainty_covers_measured_rms(iec_errors, route, u):
-    assert _report().summary(iec_errors[route])["rms"] <= u
+    assert report_volatility().summary(iec_errors[route])["rms"] <= u

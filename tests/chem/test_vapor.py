@@ -2,13 +2,12 @@
 
 from __future__ import annotations
 
-import importlib.util
 import math
-import sys
-from pathlib import Path
 
 import numpy as np
 import pytest
+
+from conftest import report_volatility
 
 from builder.chem import vapor
 from builder.chem.vapor import Antoine
@@ -17,18 +16,6 @@ from builder.chem.vapor import Antoine
 # 286.44-409.61 K; chemicals.vapor_pressure.Antoine gives 3789.04 Pa at 298.15 K.
 TOLUENE_POLING = (9.05043, 1327.62, -55.525)
 TOLUENE_P25 = 3789.0376
-
-
-def _report():
-    """Import tests/report_volatility.py (the shared benchmark) by path."""
-    if "report_volatility" in sys.modules:
-        return sys.modules["report_volatility"]
-    path = Path(__file__).resolve().parents[1] / "report_volatility.py"
-    spec = importlib.util.spec_from_file_location("report_volatility", path)
-    module = importlib.util.module_from_spec(spec)
-    sys.modules["report_volatility"] = module
-    spec.loader.exec_module(module)
-    return module
 
 
 def test_antoine_internal_form_matches_chemicals():
@@ -164,7 +151,7 @@ def test_dhvb_against_crc(cas, tau, n_oh, molar_mass, rel):
 
 def test_dhvb_median_error_against_crc():
     pytest.importorskip("rdkit")
-    stats = _report().dhvb_stats()
+    stats = report_volatility().dhvb_stats()
     assert stats["n"] >= 400
     assert stats["median_rel"] < 0.04  # measured 0.027
 
@@ -192,11 +179,11 @@ def test_estimate_uncertainty_and_range():
 def psat_rows():
     pytest.importorskip("chemicals")
     pytest.importorskip("rdkit")
-    return _report().psat_rows()
+    return report_volatility().psat_rows()
 
 
 def test_psat_25c_against_poling_antoine(psat_rows):
-    report = _report()
+    report = report_volatility()
     overall = report.psat_stats(psat_rows)
     no_donor = report.psat_stats(psat_rows, donors=False)
     donor = report.psat_stats(psat_rows, donors=True)
