@@ -127,6 +127,9 @@ def main(argv: list[str] | None = None) -> int:
     parser.add_argument("--limit", type=int, default=None, help="use only the first N molecules")
     parser.add_argument("--misses", action="store_true", help="list polar/non-polar disagreements")
     args = parser.parse_args(argv)
+    from rdkit import RDLogger
+
+    RDLogger.DisableLog("rdApp.warning")  # hydrogen-only species warn on every AddHs
     rows = reference_dipoles()[: args.limit]
     print(f"reference set: {len(rows)} molecules (chemicals 1.5.2 CCCBDB/MULLER/POLING)")
     times = timing(rows)
