@@ -122,18 +122,24 @@ def _typename(value) -> str:
 
 # ----------------------------------------------------------------------------- sources, locations
 
-def _read_sources(doc: Document) -> tuple[dict[str, Source], list[Diagnostic]]:
-    r = _Reader(doc)
-    data = r.mapping(doc.data if doc.data is not None else {}, (), list(doc.data or {}), "sources.yaml")
-    sources = {}
+def _keyed_items(r: _Reader, what: str, allowed):
+    """(key, key path, mapping) for each well-formed ``key: {...}`` item of a keyed file."""
+    doc = r.doc
+    data = r.mapping(doc.data if doc.data is not None else {}, (), list(doc.data or {}), f"{what}s file")
     for key, item in data.items():
         kp = (key,)
         if not re.match(fmt.ID_PATTERN, str(key)):
-            r.error(kp, f"source key '{key}' must use only a-z, 0-9 and '-'", at_key=True)
+            r.error(kp, f"{what} key '{key}' must use only a-z, 0-9 and '-'", at_key=True)
             continue
-        item = r.mapping(item, kp, fmt.SOURCE_KEYS, f"source '{key}'")
-        if not item:
-            continue
+        item = r.mapping(item, kp, allowed, f"{what} '{key}'")
+        if item:
+            yield key, kp, item
+
+
+def _read_sources(doc: Document) -> tuple[dict[str, Source], list[Diagnostic]]:
+    r = _Reader(doc)
+    sources = {}
+    for key, kp, item in _keyed_items(r, "source", fmt.SOURCE_KEYS):
         title = r.text(item, kp + ("title",), required=True, what=f"source '{key}'")
         kind = r.text(item, kp + ("kind",), required=True, what=f"source '{key}'")
         if kind is not None and kind not in SOURCE_KINDS:
@@ -153,16 +159,8 @@ def _read_sources(doc: Document) -> tuple[dict[str, Source], list[Diagnostic]]:
 
 def _read_locations(doc: Document) -> tuple[dict[str, Location], list[Diagnostic]]:
     r = _Reader(doc)
-    data = r.mapping(doc.data if doc.data is not None else {}, (), list(doc.data or {}), "locations.yaml")
     locations = {}
-    for key, item in data.items():
-        kp = (key,)
-        if not re.match(fmt.ID_PATTERN, str(key)):
-            r.error(kp, f"location key '{key}' must use only a-z, 0-9 and '-'", at_key=True)
-            continue
-        item = r.mapping(item, kp, fmt.LOCATION_KEYS, f"location '{key}'")
-        if not item:
-            continue
+    for key, kp, item in _keyed_items(r, "location", fmt.LOCATION_KEYS):
         name = r.text(item, kp + ("name",), required=True, what=f"location '{key}'")
         tmax = None
         if item.get("max_store_temperature") is not None:
