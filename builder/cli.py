@@ -188,6 +188,8 @@ def cmd_profile(args) -> int:
 
 
 def _print_profile_text(result: dict) -> None:
+    from .chem.handling import DISCLAIMER as NOTES_DISCLAIMER
+
     if "error" in result:
         print(f"{result['input']}: error: {result['error']}")
         return
@@ -209,6 +211,8 @@ def _print_profile_text(result: dict) -> None:
         print(f"  flammable category: {basis.get('text', 'not a flammable liquid (no flash point)')}")
     for note in result.get("handling_notes", []):
         print(f"  [{note['severity']}] {note['text']} ({note['id']}; {note['source']})")
+    if result.get("handling_notes"):
+        print(f"  {NOTES_DISCLAIMER}")
     print()
 
 

@@ -35,9 +35,6 @@ class _Reader:
     def error(self, keypath, message, hint=None, at_key=False):
         self.problems.append(self.doc.diag(keypath, message, hint, at_key=at_key))
 
-    def warn(self, keypath, message, hint=None):
-        self.problems.append(self.doc.diag(keypath, message, hint, severity="warning"))
-
     def mapping(self, data, keypath, allowed, what) -> dict:
         """``data`` as a dict; unknown keys are errors with a did-you-mean hint."""
         if not isinstance(data, dict):

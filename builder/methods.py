@@ -192,10 +192,3 @@ _METHODS = [
 
 METHODS: dict[str, Method] = {m.id: m for m in _METHODS}
 
-
-def register(method: Method) -> Method:
-    """Add a method (chemistry modules call this at import); ids are unique."""
-    if method.id in METHODS and METHODS[method.id] != method:
-        raise ValueError(f"method id {method.id!r} registered twice")
-    METHODS[method.id] = method
-    return method

@@ -14,6 +14,7 @@ import jinja2
 from markupsafe import Markup
 
 from . import __version__
+from .chem.handling import DISCLAIMER as NOTES_DISCLAIMER
 from .derive_forces import FORCE_WORDS
 from .entry_format import PROPERTIES
 from .methods import METHODS
@@ -58,6 +59,7 @@ def environment(templates: Path = TEMPLATES) -> jinja2.Environment:
     env.globals.update(KIND_MARKS=KIND_MARKS, KINDS=KINDS, CAUTION=CAUTION, METHODS=METHODS,
                        version=__version__, property_label=property_label, condition_text=condition_text,
                        temperature_text=temperature_text, FORCE_WORDS=FORCE_WORDS, first_sentence=first_sentence,
+                       NOTES_DISCLAIMER=NOTES_DISCLAIMER,
                        BOILING_TABLE_METHODS=BOILING_TABLE_METHODS, is_label=lambda v: isinstance(v, Label), boiling_validation=_boiling_validation())
     return env
 

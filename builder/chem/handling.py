@@ -57,8 +57,8 @@ import yaml
 RULES_PATH = Path(__file__).resolve().parents[1] / "data" / "handling_rules.yaml"
 
 DISCLAIMER = (
-    "These notes summarise properties for orientation only. They do not replace "
-    "the supplier's safety data sheet or a risk assessment."
+    "These notes are generated from the values above by the catalog's rules. They summarise; they do not "
+    "replace the supplier's safety data sheet, a risk assessment, local regulations or the site's rules."
 )
 
 SEVERITIES = ("high", "medium", "info")
