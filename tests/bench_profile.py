@@ -129,8 +129,8 @@ def main(argv: list[str] | None = None) -> int:
     args = parser.parse_args(argv)
     from rdkit import RDLogger
 
-    RDLogger.DisableLog("rdApp.warning")  # hydrogen-only species warn on every AddHs
     rows = reference_dipoles()[: args.limit]
+    RDLogger.DisableLog("rdApp.warning")  # hydrogen-only species warn on every AddHs
     print(f"reference set: {len(rows)} molecules (chemicals 1.5.2 CCCBDB/MULLER/POLING)")
     times = timing(rows)
     print(f"force_profile, uncached: median {statistics.median(times):.1f} ms, "
