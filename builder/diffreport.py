@@ -22,7 +22,7 @@ from pathlib import Path
 
 from .derive import Derived
 from .diagnostics import Diagnostic
-from .entries import _read_file, _read_locations, _read_sources, _read_special, entry_files, load_entry
+from .entries import entry_files, read_bibliography, read_entries
 from .links import cross_links
 from .model import Catalog, frozen_map
 
@@ -86,24 +86,12 @@ def _materialize(repo: Path, rev: str, prefix: str, into: Path) -> None:
 
 def load_tolerant(entries_dir: Path, shown_root: str) -> tuple[Catalog, list[Diagnostic], set[str]]:
     """Every entry that loads (others skipped), all diagnostics, and the ids that failed."""
-    sources, diags = _read_special(entries_dir, "sources.yaml", _read_sources, shown_root)
-    locations, more = _read_special(entries_dir, "locations.yaml", _read_locations, shown_root)
-    diags += more
-    entries, failed = {}, set()
-    for path in entry_files(entries_dir):
-        shown = f"{shown_root}/{path.name}"
-        text, problems = _read_file(path, shown)
-        entry = None
-        if text is not None:
-            entry, problems = load_entry(shown, text, sources, locations)
-        diags += problems
-        if entry is None:
-            failed.add(path.stem)
-        else:
-            entries[entry.id] = entry
+    sources, locations, diags = read_bibliography(entries_dir, shown_root)
+    entries, more, failed = read_entries(entry_files(entries_dir), sources, locations,
+                                         shown=lambda path: f"{shown_root}/{path.name}")
     catalog = Catalog(tuple(entries[k] for k in sorted(entries)), frozen_map(sorted(sources.items())),
                       frozen_map(sorted(locations.items())), shown_root)
-    return catalog, sorted(diags), failed
+    return catalog, sorted(diags + more), failed
 
 
 def snapshot(d: Derived, links=()) -> dict[str, str]:

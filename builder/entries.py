@@ -400,6 +400,42 @@ def entry_files(entries_dir: Path) -> list[Path]:
     return sorted(p for p in entries_dir.glob("*.y*ml") if p.name not in SPECIAL_FILES)
 
 
+def read_bibliography(entries_dir: Path, root: str) -> tuple[dict, dict, list[Diagnostic]]:
+    """sources.yaml and locations.yaml of ``entries_dir`` (shown as ``root/...``), with their problems."""
+    sources, diagnostics = _read_special(entries_dir, "sources.yaml", _read_sources, root)
+    locations, more = _read_special(entries_dir, "locations.yaml", _read_locations, root)
+    return sources, locations, diagnostics + more
+
+
+def read_entries(files, sources: dict, locations: dict, shown=shown_path
+                 ) -> tuple[dict[str, Entry], list[Diagnostic], set[str]]:
+    """Load each entry file: the entries that load (by id), every diagnostic, and the ids that did not."""
+    entries: dict[str, Entry] = {}
+    diagnostics: list[Diagnostic] = []
+    failed: set[str] = set()
+    seen_at: dict[str, str] = {}
+    for path in files:
+        where = shown(path)
+        if path.suffix != ".yaml":
+            diagnostics.append(Diagnostic(where, 1, 1, "error", "entry files must end in .yaml"))
+            continue
+        if path.stem in seen_at:
+            diagnostics.append(Diagnostic(where, 1, 1, "error", f"duplicate entry id '{path.stem}'",
+                                          f"also in {seen_at[path.stem]}"))
+            continue
+        seen_at[path.stem] = where
+        text, probs = _read_file(path, where)
+        entry = None
+        if text is not None:
+            entry, probs = load_entry(where, text, sources, locations)
+        diagnostics += probs
+        if entry is None:
+            failed.add(path.stem)
+        else:
+            entries[entry.id] = entry
+    return entries, diagnostics, failed
+
+
 def load_catalog(entries_dir: Path, only: list[Path] | None = None) -> tuple[Catalog | None, list[Diagnostic]]:
     """Read ``entries_dir`` (or just the files ``only``) and validate everything.
 
@@ -407,35 +443,12 @@ def load_catalog(entries_dir: Path, only: list[Path] | None = None) -> tuple[Cat
     """
     entries_dir = Path(entries_dir)
     root = shown_path(entries_dir)
-    diagnostics: list[Diagnostic] = []
     if not entries_dir.is_dir():
         return None, [Diagnostic(root, 1, 1, "error", "entries folder not found")]
-    sources, probs = _read_special(entries_dir, "sources.yaml", _read_sources, root)
-    diagnostics += probs
-    locations, probs = _read_special(entries_dir, "locations.yaml", _read_locations, root)
-    diagnostics += probs
+    sources, locations, diagnostics = read_bibliography(entries_dir, root)
     files = sorted(Path(p) for p in only) if only else entry_files(entries_dir)
-    entries: dict[str, Entry] = {}
-    seen_at: dict[str, str] = {}
-    for path in files:
-        shown = shown_path(path)
-        if path.suffix != ".yaml":
-            diagnostics.append(Diagnostic(shown, 1, 1, "error", "entry files must end in .yaml"))
-            continue
-        if path.stem in seen_at:
-            diagnostics.append(Diagnostic(shown, 1, 1, "error", f"duplicate entry id '{path.stem}'",
-                                          f"also in {seen_at[path.stem]}"))
-            continue
-        seen_at[path.stem] = shown
-        text, probs = _read_file(path, shown)
-        diagnostics += probs
-        if text is None:
-            continue
-        entry, probs = load_entry(shown, text, sources, locations)
-        diagnostics += probs
-        if entry is not None:
-            entries[entry.id] = entry
-    diagnostics.sort(key=lambda d: (d.path, d.line, d.col, d.message))
+    entries, more, _ = read_entries(files, sources, locations)
+    diagnostics = sorted(diagnostics + more, key=lambda d: (d.path, d.line, d.col, d.message))
     if errors(diagnostics):
         return None, diagnostics
     catalog = Catalog(tuple(entries[k] for k in sorted(entries)), frozen_map(sorted(sources.items())),

@@ -232,19 +232,12 @@ def whole_catalog(entries_dir: Path, named: Catalog) -> Catalog:
     For the cross-entry checks when only some files are checked: the other files' own
     problems are not reported (they are not being checked), they only take part.
     """
-    from .entries import _read_file, entry_files, load_entry, shown_path
+    from .entries import entry_files, read_entries
 
     entries = {e.id: e for e in named.entries}
     named_files = {Path(e.path).resolve() for e in named.entries}
-    for path in entry_files(Path(entries_dir)):
-        if path.stem in entries or path.resolve() in named_files:
-            continue
-        text, _ = _read_file(path, shown_path(path))
-        if text is None:
-            continue
-        entry, _ = load_entry(shown_path(path), text, named.sources, named.locations)
-        if entry is not None:
-            entries[entry.id] = entry
+    others = [p for p in entry_files(Path(entries_dir)) if p.stem not in entries and p.resolve() not in named_files]
+    entries.update(read_entries(others, named.sources, named.locations)[0])
     return Catalog(tuple(entries[k] for k in sorted(entries)), named.sources, named.locations, named.root)
 
 
