@@ -12,7 +12,6 @@ Relations:
 """
 from __future__ import annotations
 
-import re
 from collections import Counter
 from dataclasses import dataclass
 from functools import lru_cache
@@ -20,6 +19,7 @@ from functools import lru_cache
 from rdkit import Chem
 
 from .derive import Derived
+from .structure import formula_counts
 
 CONTRAST_MASS_RATIO = 0.10
 NEAR_BP_COUNT = 3
@@ -62,16 +62,9 @@ def structure_class(smiles: str) -> tuple:
     return (mol.GetRingInfo().NumRings(), groups, hetero, branches)
 
 
-_ATOM = re.compile(r"([A-Z][a-z]?)(\d*)")
-
-
-def _counts(formula: str) -> Counter:
-    return Counter({el: int(n or 1) for el, n in _ATOM.findall(formula)})
-
-
 def ch2_difference(formula_a: str, formula_b: str) -> int | None:
     """n when formula_b = formula_a + n·CH2 (n may be negative), else None."""
-    a, b = _counts(formula_a), _counts(formula_b)
+    a, b = formula_counts(formula_a)[0], formula_counts(formula_b)[0]
     diff = {el: b.get(el, 0) - a.get(el, 0) for el in set(a) | set(b)}
     n = diff.get("C", 0)
     if n == 0 or diff.get("H", 0) != 2 * n or any(v for el, v in diff.items() if el not in ("C", "H")):

@@ -31,14 +31,13 @@ at the whole ``catalog``.
 from __future__ import annotations
 
 import re
-from collections import Counter
 from pathlib import Path
 
 from .derive import Derived
 from .derive_fire import antoine_of
 from .diagnostics import Diagnostic
 from .model import Catalog, Entry
-from .structure import identify
+from .structure import formula_counts, identify
 
 #: a stated vapor pressure further than this (relative) from the entry's own Antoine equation is doubtful
 ANTOINE_TOLERANCE = 0.25
@@ -86,23 +85,6 @@ def heavy_mass_fraction(smiles: str) -> float:
     heavy = sum(atom.GetMass() for atom in mol.GetAtoms()
                 if atom.GetSymbol() in HALOGENS or atom.GetAtomicNum() > 18)
     return heavy / Descriptors.MolWt(mol)
-
-
-_ELEMENT = re.compile(r"([A-Z][a-z]?)(\d*)")
-_CHARGE = re.compile(r"([+-])(\d*)$")
-
-
-def formula_counts(formula: str) -> tuple[Counter, int]:
-    """Element counts and net charge of a formula such as ``C2H6O`` or ``C2H3O2-``."""
-    charge = 0
-    match = _CHARGE.search(formula)
-    if match:
-        charge = int(match[2] or 1) * (1 if match[1] == "+" else -1)
-        formula = formula[:match.start()]
-    counts: Counter = Counter()
-    for element, n in _ELEMENT.findall(formula):
-        counts[element] += int(n or 1)
-    return counts, charge
 
 
 def _diag(entry: Entry, dotted: str, severity: str, message: str, hint: str | None = None) -> Diagnostic:

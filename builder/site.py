@@ -6,7 +6,6 @@ failure the previous site stays exactly as it was.
 from __future__ import annotations
 
 import os
-import re
 import shutil
 import tempfile
 from dataclasses import dataclass
@@ -24,7 +23,7 @@ from .plausibility import check_catalog
 from .render import TEMPLATES, Writer, environment, revision_text
 from .revision import Revision, entries_revision
 from .stores import store_sheet
-from .structure import depict_svg
+from .structure import depict_svg, formula_counts
 
 
 @dataclass(frozen=True)
@@ -98,16 +97,11 @@ def _catalog_charts(derived) -> tuple[str, list, list]:
     main_chart = charts.boiling_vs_mass_svg(points, alkane)
     series_charts = []
     for i, series in enumerate(homologous_series(derived)):
-        pts = [(d.entry.name, _carbons(d.identity.formula), d.get("boiling_point").value)
+        pts = [(d.entry.name, formula_counts(d.identity.formula)[0]["C"], d.get("boiling_point").value)
                for d in series if d.get("boiling_point") is not None]
         title = " → ".join(d.entry.name for d in series)
         series_charts.append((f"series-{i + 1}.svg", title, series, charts.series_svg(title, pts)))
     return main_chart, points, series_charts
-
-
-def _carbons(formula: str) -> int:
-    match = re.match(r"C(\d*)(?![a-z])", formula)
-    return int(match.group(1) or 1) if match else 0
 
 
 def render_site(catalog: Catalog, derived: tuple[Derived, ...], out: Path, diagnostics=(),

@@ -11,6 +11,7 @@ from __future__ import annotations
 
 import logging
 import re
+from collections import Counter
 from dataclasses import dataclass
 from functools import lru_cache
 
@@ -109,6 +110,24 @@ def identify(smiles: str) -> Identity:
         fragments=len(Chem.GetMolFrags(mol)),
         elements=tuple(sorted({a.GetSymbol() for a in molh.GetAtoms()})),
     )
+
+
+_FORMULA_ELEMENT = re.compile(r"([A-Z][a-z]?)(\d*)")
+_FORMULA_CHARGE = re.compile(r"([+-])(\d*)$")
+
+
+def formula_counts(formula: str) -> tuple[Counter, int]:
+    """Element counts and net charge of a formula such as ``C2H6O`` or ``C2H3O2-``."""
+    charge = 0
+    match = _FORMULA_CHARGE.search(formula)
+    if match:
+        charge = int(match[2] or 1) * (1 if match[1] == "+" else -1)
+        formula = formula[:match.start()]
+    counts: Counter = Counter()
+    for element, n in _FORMULA_ELEMENT.findall(formula):
+        counts[element] += int(n or 1)
+    return counts, charge
+
 
 
 @lru_cache(maxsize=1024)
