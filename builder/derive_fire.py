@@ -53,10 +53,10 @@ def antoine_of(stated: StatedAntoine) -> vapor.Antoine:
 
 
 def _pressure_at(T: float, antoine: vapor.Antoine | None, tb: Value | None, vs: VaporStructure | None,
-                 note_prefix: str) -> Value | None:
+                 antoine_source: str) -> Value | None:
     if antoine is not None and antoine.in_range(T):
         return Value(antoine.pressure(T).value, "Pa", Provenance("rule", method="antoine",
-                                                                   note=f"coefficients from {note_prefix}"))
+                                                                   note=f"coefficients from {antoine_source}"))
     if tb is None or vs is None or T >= tb.value:
         return None
     est = vapor.estimate_psat(T, tb.value, vs.tau, vs.hbn, vs.h_bond_donor)
@@ -134,10 +134,9 @@ def _category(entry: Entry, fp: Value | None, tb: Value | None, result: FireResu
     u_tb = (tb.uncertainty or 0.0) if tb is not None and tb.kind == "estimated" else 0.0
     rng = ghs.possible_categories(fp.value, u_fp or 0.0, tb.value if tb else None, u_tb)
     cat = rng.most_likely
-    basis = [v.kind for v in (fp, tb) if v is not None and v.kind == "estimated"]
-    note = "rests on an estimated " + " and ".join(
-        n for n, v in (("flash point", fp), ("boiling point", tb)) if v is not None and v.kind == "estimated"
-    ) if basis else None
+    estimated_inputs = [name for name, v in (("flash point", fp), ("boiling point", tb))
+                        if v is not None and v.kind == "estimated"]
+    note = "rests on an estimated " + " and ".join(estimated_inputs) if estimated_inputs else None
     possible = sorted(rng.categories, key=lambda c: 5 if c is None else c)
 
     def words(c):
@@ -154,7 +153,7 @@ def _category(entry: Entry, fp: Value | None, tb: Value | None, result: FireResu
                                                 cat)
     result.labels["flammable_category_range"] = Label(
         ", ".join("none" if c is None else str(c) for c in possible),
-        Provenance("rule", method="ghs-flammable-liquid", note=note), None)
+        Provenance("rule", method="ghs-flammable-liquid", note=note), tuple(possible))
     if not entry.hazard_statements or entry.path == "<command line>":
         return  # nothing declared, nothing to disagree with
     message = ghs.check_declared_statements(entry.hazard_statements, cat, rng.categories,

@@ -13,13 +13,6 @@ PROFILE_VALUES = ("molar_mass", "electron_count", "boiling_point", "boiling_poin
                   "saturated_vapor_concentration_20C", "vapor_density_relative", "vapor_hazard_ratio")
 
 
-def _category_range(d: Derived) -> list:
-    rng = d.label("flammable_category_range")
-    if rng is None:
-        return []
-    return [None if part == "none" else int(part) for part in rng.text.split(", ")]
-
-
 def identity_json(d: Derived) -> dict:
     ident = d.identity
     if ident is None:
@@ -38,7 +31,7 @@ def profile_json(d: Derived) -> dict:
     cat = d.label("flammable_category")
     out["flammable_category"] = cat.code if cat else None
     if cat is not None:
-        out["flammable_category_range"] = _category_range(d)
+        out["flammable_category_range"] = list(d.label("flammable_category_range").code)
         out["flammable_category_basis"] = cat.as_dict()
     for band in ("volatility_band", "volatility_band_process"):
         if d.label(band) is not None:

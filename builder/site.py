@@ -77,7 +77,7 @@ def _groups(catalog: Catalog, derived) -> dict:
         for key in d.entry.catalog.locations:
             stores[key].append(d)
         rng = d.label("flammable_category_range")
-        for key in (rng.text.split(", ") if rng else ["none"]):
+        for key in (["none" if c is None else str(c) for c in rng.code] if rng else ["none"]):
             categories[key].append(d)
     forces = {k: sorted(v, key=lambda d: d.get("molar_mass").value) for k, v in forces.items()}
     return {"forces": forces, "stores": stores, "categories": categories,

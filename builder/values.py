@@ -93,8 +93,8 @@ class Label:
 
     text: str
     provenance: Provenance
-    #: a machine-readable form where there is one (e.g. the category number)
-    code: int | str | None = None
+    #: a machine-readable form where there is one (a category number, a tuple of possible categories)
+    code: int | str | tuple | None = None
 
     @property
     def kind(self) -> str:
@@ -103,7 +103,7 @@ class Label:
     def as_dict(self) -> dict:
         out = {"text": self.text, "provenance": self.provenance.as_dict()}
         if self.code is not None:
-            out["code"] = self.code
+            out["code"] = list(self.code) if isinstance(self.code, tuple) else self.code
         return out
 
 
