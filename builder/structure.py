@@ -19,6 +19,8 @@ from rdkit import Chem, rdBase
 from rdkit.Chem import Descriptors, rdMolDescriptors
 from rdkit.Chem.Draw import rdMolDraw2D
 
+from .chem.shape import electron_count
+
 rdBase.LogToPythonLogger()
 _RDKIT_LOG = logging.getLogger("rdkit")
 _RDKIT_LOG.propagate = False
@@ -97,14 +99,13 @@ def identify(smiles: str) -> Identity:
     if mol is None:
         raise ValueError(reason)
     molh = Chem.AddHs(mol)
-    electrons = sum(a.GetAtomicNum() for a in molh.GetAtoms()) - Chem.GetFormalCharge(mol)
     return Identity(
         smiles=Chem.MolToSmiles(mol),
         formula=rdMolDescriptors.CalcMolFormula(mol),
         molar_mass=Descriptors.MolWt(mol),
         inchi=Chem.MolToInchi(mol),
         inchikey=Chem.MolToInchiKey(mol),
-        electron_count=electrons,
+        electron_count=electron_count(mol),
         heavy_atoms=mol.GetNumHeavyAtoms(),
         charge=Chem.GetFormalCharge(mol),
         fragments=len(Chem.GetMolFrags(mol)),
