@@ -196,7 +196,7 @@ def _print_profile_text(result: dict) -> None:
     print(f"{result['input']}  →  {result['smiles']}  {result['formula']}  {result['inchikey']}")
     rows = [(k, v) for k, v in result.items() if isinstance(v, dict) and "value" in v]
     forces = result.get("forces", {})
-    rows += [(k, v) for k, v in forces.items() if isinstance(v, dict) and "value" in v]
+    rows += [(k, v) for k, v in forces.items() if isinstance(v, dict) and "value" in v and k not in result]
     for key, val in rows:
         prov = val["provenance"]
         ref = prov.get("source") or prov.get("method")
