@@ -84,7 +84,7 @@ def _groups(catalog: Catalog, derived) -> dict:
             "unstored": [d for d in derived if not d.entry.catalog.locations]}
 
 
-def _catalog_charts(derived) -> tuple[str, list, list]:
+def _catalog_charts(derived) -> tuple[str, list]:
     points = []
     for d in derived:
         bp, mm = d.get("boiling_point"), d.get("molar_mass")
@@ -101,7 +101,7 @@ def _catalog_charts(derived) -> tuple[str, list, list]:
                for d in series if d.get("boiling_point") is not None]
         title = " → ".join(d.entry.name for d in series)
         series_charts.append((f"series-{i + 1}.svg", title, series, charts.series_svg(title, pts)))
-    return main_chart, points, series_charts
+    return main_chart, series_charts
 
 
 def render_site(catalog: Catalog, derived: tuple[Derived, ...], out: Path, diagnostics=(),
@@ -120,7 +120,7 @@ def render_site(catalog: Catalog, derived: tuple[Derived, ...], out: Path, diagn
     links: dict[str, tuple[Link, ...]] = cross_links(derived)
     by_source, by_method = _uses(catalog, derived)
     by_id = {d.entry.id: d for d in derived}
-    main_chart, chart_points, series_charts = _catalog_charts(derived)
+    main_chart, series_charts = _catalog_charts(derived)
     writer.text("charts/boiling-vs-mass.svg", main_chart)
     for name, _, _, svg in series_charts:
         writer.text(f"charts/{name}", svg)
@@ -132,7 +132,7 @@ def render_site(catalog: Catalog, derived: tuple[Derived, ...], out: Path, diagn
     writer.page("forces.html", "by_force.html", **common)
     writer.page("stores.html", "by_store.html", **common)
     writer.page("categories.html", "by_category.html", **common)
-    writer.page("trends.html", "trends.html", chart_points=chart_points, series_charts=series_charts, **common)
+    writer.page("trends.html", "trends.html", series_charts=series_charts, **common)
     writer.page("sources.html", "sources.html", sources_used=by_source, **common)
     writer.page("methods.html", "methods.html", methods_used=by_method, **common)
     writer.page("build.html", "build.html", diagnostics=diagnostics, revision=revision, **common)
