@@ -1,7 +1,9 @@
 """The ``cohesion`` command: build, check, diff, new, schema and profile.
 
-Exit codes: 0 clean, 1 errors in the entries (or a bad SMILES for ``profile``), 2 usage,
-3 a tool the command needs (headless Chromium for ``print``) is missing.
+Exit codes: 0 clean, 1 errors in the entries (or a bad SMILES for ``profile``), 2 usage
+(including an ``--out`` that may not be replaced), 3 a tool the command needs (headless
+Chromium for ``print``) is missing, 4 the output could not be written (disk full,
+read-only folder); the previous output is then untouched.
 """
 from __future__ import annotations
 
@@ -14,7 +16,7 @@ from . import __version__
 from .diagnostics import CatalogError, Diagnostic, errors
 from .entries import load_catalog
 
-EXIT_OK, EXIT_ENTRIES, EXIT_USAGE, EXIT_TOOL = 0, 1, 2, 3
+EXIT_OK, EXIT_ENTRIES, EXIT_USAGE, EXIT_TOOL, EXIT_OUTPUT = 0, 1, 2, 3, 4
 
 
 def _print_diagnostics(diagnostics: list[Diagnostic], stream=None) -> None:
@@ -23,11 +25,22 @@ def _print_diagnostics(diagnostics: list[Diagnostic], stream=None) -> None:
         print(d, file=stream)
 
 
+def _say(message: str) -> None:
+    print(f"cohesion: {message}", file=sys.stderr)
+
+
 def cmd_build(args) -> int:
+    from .output import OutputFailed, OutputRefused
     from .site import build
 
     try:
-        built = build(Path(args.entries), Path(args.out))
+        built = build(Path(args.entries), Path(args.out), waiting_message=_say)
+    except OutputRefused as exc:
+        print(f"cohesion build: refusing --out: {exc}", file=sys.stderr)
+        return EXIT_USAGE
+    except OutputFailed as exc:
+        print(f"cohesion build: {exc}", file=sys.stderr)
+        return EXIT_OUTPUT
     except CatalogError as exc:
         _print_diagnostics(exc.diagnostics)
         print(f"cohesion: build stopped: {exc}; nothing was written to {args.out}", file=sys.stderr)
@@ -122,6 +135,7 @@ def _smiles_inputs(items: list[str]) -> list[str]:
 
 
 def cmd_print(args) -> int:
+    from .output import OutputFailed, OutputRefused
     from .printing import PrintError, print_catalog
 
     papers = [p.strip().lower() for p in args.paper.split(",") if p.strip()]
@@ -137,6 +151,12 @@ def cmd_print(args) -> int:
     except PrintError as exc:
         print(f"cohesion print: {exc}", file=sys.stderr)
         return EXIT_TOOL
+    except OutputRefused as exc:
+        print(f"cohesion print: refusing --out: {exc}", file=sys.stderr)
+        return EXIT_USAGE
+    except OutputFailed as exc:
+        print(f"cohesion print: {exc}", file=sys.stderr)
+        return EXIT_OUTPUT
     print(f"Printed {len(pdfs)} PDF files into {Path(args.out).resolve()}")
     return EXIT_OK
 

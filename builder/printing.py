@@ -16,7 +16,8 @@ import tempfile
 from concurrent.futures import ThreadPoolExecutor
 from pathlib import Path
 
-from .site import _swap, build
+from .output import guard_target, replace_folder
+from .site import build
 
 PAPERS = ("a4", "letter")
 CHROMIUM_NAMES = ("chromium", "chromium-browser")
@@ -76,14 +77,12 @@ def print_catalog(entries: Path, out: Path, papers=PAPERS, jobs: int = 2) -> lis
         raise PrintError("headless Chromium was not found: install it (e.g. 'apt-get install chromium') "
                          "or set COHESION_CHROMIUM to its path; the HTML printouts in the built site "
                          "print from any browser")
-    out = Path(out).resolve()
-    out.parent.mkdir(parents=True, exist_ok=True)
+    guard_target(out, protect=(Path(entries),))
     with tempfile.TemporaryDirectory(prefix="cohesion-print-") as work:
         work = Path(work)
         site = work / "site"
         build(entries, site)
-        pdf_root = Path(tempfile.mkdtemp(dir=out.parent, prefix=f".{out.name}.tmp-"))
-        try:
+        with replace_folder(out, protect=(Path(entries),)) as pdf_root:
             tasks = []
             for paper in papers:
                 for page in printable_pages(site):
@@ -93,8 +92,4 @@ def print_catalog(entries: Path, out: Path, papers=PAPERS, jobs: int = 2) -> lis
                 futures = [pool.submit(_print_one, chromium, work, page, pdf) for page, pdf in tasks]
                 for future in futures:
                     future.result()
-            _swap(pdf_root, out)
-        except BaseException:
-            shutil.rmtree(pdf_root, ignore_errors=True)
-            raise
-    return sorted(out.rglob("*.pdf"))
+    return sorted(Path(out).resolve().rglob("*.pdf"))

@@ -5,9 +5,6 @@ failure the previous site stays exactly as it was.
 """
 from __future__ import annotations
 
-import os
-import shutil
-import tempfile
 from dataclasses import dataclass
 from pathlib import Path
 
@@ -19,6 +16,7 @@ from .diagnostics import CatalogError, Diagnostic
 from .entries import load_catalog
 from .links import Link, cross_links, homologous_series
 from .model import Catalog
+from .output import guard_target, replace_folder
 from .plausibility import check_catalog
 from .render import TEMPLATES, Writer, environment, revision_text
 from .revision import Revision, entries_revision
@@ -165,8 +163,14 @@ def render_site(catalog: Catalog, derived: tuple[Derived, ...], out: Path, diagn
     return writer.written
 
 
-def build(entries_dir: Path, out: Path) -> BuiltSite:
-    """Build the site for ``entries_dir`` into ``out``; raises ``CatalogError`` on any error."""
+def build(entries_dir: Path, out: Path, waiting_message=None) -> BuiltSite:
+    """Build the site for ``entries_dir`` into ``out``; raises ``CatalogError`` on any error.
+
+    ``out`` is checked first (``output.guard_target``: ``OutputRefused`` when it may not be
+    replaced) and is replaced whole only when every page is written (``OutputFailed`` when
+    the disk refuses).
+    """
+    guard_target(Path(out), protect=(Path(entries_dir),))
     catalog, diagnostics = load_catalog(entries_dir)
     if catalog is None:
         raise CatalogError(diagnostics)
@@ -175,26 +179,6 @@ def build(entries_dir: Path, out: Path) -> BuiltSite:
     all_diags = tuple(sorted(diagnostics + findings))
     if any(d.severity == "error" for d in all_diags):
         raise CatalogError(list(all_diags))
-    out = Path(out).resolve()
-    out.parent.mkdir(parents=True, exist_ok=True)
-    tmp = Path(tempfile.mkdtemp(dir=out.parent, prefix=f".{out.name}.tmp-"))
-    try:
+    with replace_folder(Path(out), protect=(Path(entries_dir),), waiting_message=waiting_message) as tmp:
         pages = render_site(catalog, derived, tmp, all_diags, entries_revision(Path(entries_dir)))
-        _swap(tmp, out)
-    except BaseException:
-        shutil.rmtree(tmp, ignore_errors=True)
-        raise
     return BuiltSite(catalog, derived, all_diags, tuple(pages))
-
-
-def _swap(tmp: Path, out: Path) -> None:
-    """Put ``tmp`` where ``out`` is, keeping the old one until the new one is in place."""
-    os.chmod(tmp, 0o755)
-    if out.exists():
-        old = Path(tempfile.mkdtemp(dir=out.parent, prefix=f".{out.name}.old-"))
-        os.rmdir(old)
-        os.replace(out, old)
-        os.replace(tmp, out)
-        shutil.rmtree(old, ignore_errors=True)
-    else:
-        os.replace(tmp, out)
