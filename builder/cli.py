@@ -12,9 +12,9 @@ import json
 import sys
 from pathlib import Path
 
-from . import __version__
-from .diagnostics import CatalogError, Diagnostic, errors
-from .entries import load_catalog
+from builder import __version__
+from builder.core.diagnostics import CatalogError, Diagnostic, errors
+from builder.load.entries import load_catalog
 
 EXIT_OK, EXIT_ENTRIES, EXIT_USAGE, EXIT_TOOL, EXIT_OUTPUT = 0, 1, 2, 3, 4
 
@@ -30,8 +30,8 @@ def _say(message: str) -> None:
 
 
 def cmd_build(args) -> int:
-    from .output import OutputFailed, OutputRefused
-    from .site import build
+    from builder.core.output import OutputFailed, OutputRefused
+    from builder.pipeline import build
 
     try:
         built = build(Path(args.entries), Path(args.out), waiting_message=_say)
@@ -54,7 +54,7 @@ def cmd_build(args) -> int:
 
 
 def cmd_check(args) -> int:
-    from .site import derive_catalog
+    from builder.derive.catalog import derive_catalog
 
     files = [Path(f) for f in args.files] if args.files else None
     if files:
@@ -64,7 +64,7 @@ def cmd_check(args) -> int:
             return EXIT_USAGE
     catalog, diagnostics = load_catalog(Path(args.entries), only=files)
     if catalog is not None:
-        from .plausibility import check_catalog, check_files
+        from builder.review.plausibility import check_catalog, check_files
 
         derived = derive_catalog(catalog)
         plausible = check_files(Path(args.entries), catalog, derived) if files else check_catalog(catalog, derived)
@@ -80,7 +80,7 @@ def cmd_check(args) -> int:
 
 
 def cmd_diff(args) -> int:
-    from .diffreport import GitProblem, change_report, markdown
+    from builder.review.diffreport import GitProblem, change_report, markdown
 
     try:
         report = change_report(Path(args.entries), args.base, args.head)
@@ -95,7 +95,7 @@ def cmd_diff(args) -> int:
 
 
 def cmd_new(args) -> int:
-    from .scaffold import ScaffoldError, new_entry
+    from builder.review.scaffold import ScaffoldError, new_entry
 
     try:
         path, added = new_entry(Path(args.entries), args.name, args.smiles, args.cas, args.from_reference)
@@ -110,7 +110,7 @@ def cmd_new(args) -> int:
 
 
 def cmd_schema(args) -> int:
-    from .schema import write_schema
+    from builder.load.schema import write_schema
 
     folder = Path(args.entries)
     if not folder.is_dir():
@@ -135,8 +135,9 @@ def _smiles_inputs(items: list[str]) -> list[str]:
 
 
 def cmd_print(args) -> int:
-    from .output import OutputFailed, OutputRefused
-    from .printing import PrintError, print_catalog
+    from builder.core.output import OutputFailed, OutputRefused
+    from builder.pipeline import print_catalog
+    from builder.publish.printing import PrintError
 
     papers = [p.strip().lower() for p in args.paper.split(",") if p.strip()]
     if not papers or any(p not in ("a4", "letter") for p in papers):
@@ -163,9 +164,14 @@ def cmd_print(args) -> int:
 
 def _given_values(items: list[str]) -> dict:
     """``--given boiling_point="34.6 °C"`` → {name: Value}; raises ValueError with the reason."""
-    from .entry_format import PROPERTIES
-    from .units import DIMENSIONS, FRACTION_SCALE, UnitProblem, parse_quantity
-    from .values import Provenance, Value
+    from builder.core.units import (
+        DIMENSIONS,
+        FRACTION_SCALE,
+        UnitProblem,
+        parse_quantity,
+    )
+    from builder.core.values import Provenance, Value
+    from builder.load.entry_format import PROPERTIES
 
     given = {}
     for item in items:
@@ -188,7 +194,7 @@ def _given_values(items: list[str]) -> dict:
 
 
 def cmd_profile(args) -> int:
-    from .profile import profile
+    from builder.derive.profile import profile
 
     try:
         given = _given_values(args.given)
@@ -208,7 +214,7 @@ def cmd_profile(args) -> int:
 
 
 def _print_profile_text(result: dict) -> None:
-    from .chem.handling import DISCLAIMER as NOTES_DISCLAIMER
+    from builder.chem.handling import DISCLAIMER as NOTES_DISCLAIMER
 
     if "error" in result:
         print(f"{result['input']}: error: {result['error']}")

@@ -43,9 +43,9 @@ properties:
 
 
 def report_volatility():
-    """tests/report_volatility.py (the volatility benchmark, whose helpers tests reuse), imported by path."""
+    """tools/report_volatility.py (the volatility report, whose helpers tests reuse), imported by path."""
     if "report_volatility" not in sys.modules:
-        spec = importlib.util.spec_from_file_location("report_volatility", ROOT / "tests" / "report_volatility.py")
+        spec = importlib.util.spec_from_file_location("report_volatility", ROOT / "tools" / "report_volatility.py")
         module = importlib.util.module_from_spec(spec)
         sys.modules["report_volatility"] = module
         spec.loader.exec_module(module)

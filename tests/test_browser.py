@@ -15,9 +15,9 @@ from http.server import SimpleHTTPRequestHandler, ThreadingHTTPServer
 from urllib.parse import urldefrag, urljoin
 
 import pytest
-
-from builder.site import build
 from conftest import DEMO
+
+from builder.pipeline import build
 
 pytestmark = pytest.mark.browser
 

@@ -10,11 +10,11 @@ from pathlib import Path
 from urllib.parse import urldefrag
 
 import pytest
+from conftest import DEMO, ETHANOL, ROOT
 
 from builder.cli import main
-from builder.site import build
-from builder.values import KINDS
-from conftest import DEMO, ETHANOL, ROOT
+from builder.core.values import KINDS
+from builder.pipeline import build
 
 
 class _Page(HTMLParser):

@@ -4,12 +4,11 @@ from __future__ import annotations
 import json
 
 import pytest
-
-from builder.cli import main
-from builder.entries import load_catalog
-from builder.site import derive_catalog
 from conftest import DEMO
 
+from builder.cli import main
+from builder.derive.catalog import derive_catalog
+from builder.load.entries import load_catalog
 
 #: the bibliography these entries cite (an uncited source would be a warning of its own)
 CRC_ONLY = "crc-95:\n  title: CRC Handbook of Chemistry and Physics\n  kind: handbook\n"

@@ -6,10 +6,10 @@ import shutil
 import subprocess
 
 import pytest
+from conftest import DEMO
 
 from builder.cli import main
-from builder.diffreport import change_report, default_base, markdown
-from conftest import DEMO
+from builder.review.diffreport import change_report, default_base, markdown
 
 pytestmark = pytest.mark.skipif(shutil.which("git") is None, reason="needs git")
 

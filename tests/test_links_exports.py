@@ -7,11 +7,12 @@ import json
 
 import pytest
 
-from builder.entries import load_catalog
-from builder.exports import safe_json
-from builder.links import ch2_difference, cross_links, homologous_series
-from builder.serialize import entry_json
-from builder.site import build, derive_catalog
+from builder.derive.catalog import derive_catalog
+from builder.derive.links import ch2_difference, cross_links, homologous_series
+from builder.derive.serialize import entry_json
+from builder.load.entries import load_catalog
+from builder.pipeline import build
+from builder.publish.exports import safe_json
 
 LITERATURE_BP = "  boiling_point: {{value: '{bp} °C', source: crc-95}}\n"
 

@@ -2,9 +2,9 @@
 from __future__ import annotations
 
 import pytest
-
-from builder.entries import load_catalog
 from conftest import ETHANOL
+
+from builder.load.entries import load_catalog
 
 
 def _diagnostics(make_entries, text, name="bad.yaml"):

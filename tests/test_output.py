@@ -1,7 +1,7 @@
 """What ``--out`` may replace, and that a build killed or failing at any point leaves a complete site.
 
 The rules checked here are our own (DEVELOPERS.md, "Output folders"); the kill points are
-the steps of ``builder.output.replace_folder``.
+the steps of ``builder.core.output.replace_folder``.
 """
 from __future__ import annotations
 
@@ -15,10 +15,10 @@ import time
 from pathlib import Path
 
 import pytest
-
-from builder import output
-from builder.cli import main
 from conftest import ETHANOL, ROOT
+
+from builder.cli import main
+from builder.core import output
 
 
 def _digest(folder: Path) -> dict[str, str]:
@@ -152,7 +152,7 @@ def test_disk_errors_end_in_a_message_and_leave_the_site(make_entries, tmp_path,
     out = tmp_path / "site"
     assert _build(folder, out) == 0
     before = _digest(out)
-    from builder import render
+    from builder.publish import templating as render
 
     def full(self, path, text):
         raise OSError(errno.ENOSPC, os.strerror(errno.ENOSPC), str(self.out / path))
@@ -221,7 +221,7 @@ def test_a_build_killed_at_each_step_leaves_a_complete_site(two_versions, tmp_pa
 @pytest.mark.slow
 def test_a_kill_between_the_two_renames_is_healed_by_the_next_build(two_versions, tmp_path):
     folder, out, old, new = two_versions
-    script = ("import sys; from builder import output; output.exchange = lambda a, b: False; "
+    script = ("import sys; from builder.core import output; output.exchange = lambda a, b: False; "
               "from builder.cli import main; sys.exit(main(sys.argv[1:]))")
     killed = subprocess.run([sys.executable, "-c", script, "build", "--entries", str(folder), "--out", str(out)],
                             cwd=ROOT, env=_env(COHESION_FAULT_POINT="between-renames"), capture_output=True,

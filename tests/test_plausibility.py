@@ -11,10 +11,15 @@ from __future__ import annotations
 import pytest
 
 from builder.cli import main
-from builder.diagnostics import CatalogError
-from builder.entries import load_catalog
-from builder.plausibility import check_catalog, density_range, heavy_mass_fraction
-from builder.site import build, derive_catalog
+from builder.core.diagnostics import CatalogError
+from builder.derive.catalog import derive_catalog
+from builder.load.entries import load_catalog
+from builder.pipeline import build
+from builder.review.plausibility import (
+    check_catalog,
+    density_range,
+    heavy_mass_fraction,
+)
 
 chemicals = pytest.importorskip("chemicals")
 from chemicals import miscdata  # noqa: E402

@@ -12,13 +12,13 @@ import os
 import re
 
 import pytest
+from conftest import DEMO, ETHANOL
 from pypdf import PdfReader
 
 from builder.cli import main
-from builder.render import CAUTION, revision_text
-from builder.revision import entries_revision
-from builder.site import build
-from conftest import DEMO, ETHANOL
+from builder.pipeline import build
+from builder.publish.revision import entries_revision
+from builder.publish.templating import CAUTION, revision_text
 
 pytestmark = pytest.mark.browser
 

@@ -7,7 +7,7 @@ import json
 import pytest
 
 from builder.cli import main
-from builder.values import KINDS
+from builder.core.values import KINDS
 
 chemicals_ids = pytest.importorskip("chemicals.identifiers")
 

@@ -12,9 +12,9 @@ import sys
 import pytest
 
 from builder.cli import main
-from builder.entries import load_catalog
-from builder.scaffold import slugify
-from builder.schema import MODELINE
+from builder.load.entries import load_catalog
+from builder.load.schema import MODELINE
+from builder.review.scaffold import slugify
 
 CRC_ONLY = "crc-95:\n  title: CRC Handbook of Chemistry and Physics\n  kind: handbook\n"
 

@@ -10,14 +10,20 @@ import json
 
 import pytest
 import yaml
+from conftest import DEMO
 from hypothesis import HealthCheck, assume, given, settings
 from hypothesis import strategies as st
 
 from builder.cli import main
-from builder.entries import load_catalog
-from builder.schema import MODELINE, SCHEMA_FILE, SHIPPED, entry_schema, schema_text
-from builder.units import UNIT_SPELLINGS, parse_quantity
-from conftest import DEMO
+from builder.core.units import UNIT_SPELLINGS, parse_quantity
+from builder.load.entries import load_catalog
+from builder.load.schema import (
+    MODELINE,
+    SCHEMA_FILE,
+    SHIPPED,
+    entry_schema,
+    schema_text,
+)
 
 jsonschema = pytest.importorskip("jsonschema")
 SCHEMA = entry_schema()
@@ -80,7 +86,7 @@ SETTINGS = settings(max_examples=40, deadline=None, derandomize=True,
 
 
 def test_shipped_schema_is_the_generator_output():
-    assert SHIPPED.read_text(encoding="utf-8") == schema_text(), "run: python -m builder.schema"
+    assert SHIPPED.read_text(encoding="utf-8") == schema_text(), "run: python -m builder.load.schema"
     jsonschema.Draft7Validator.check_schema(json.loads(SHIPPED.read_text(encoding="utf-8")))
 
 

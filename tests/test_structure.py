@@ -5,8 +5,8 @@ from __future__ import annotations
 
 import pytest
 
-from builder.cas import cas_problem
-from builder.structure import depict_svg, identify, parse_smiles
+from builder.chem.identity import depict_svg, identify, parse_smiles
+from builder.load.cas import cas_problem
 
 identifiers = pytest.importorskip("chemicals.identifiers")
 

@@ -3,7 +3,7 @@ from __future__ import annotations
 
 import pytest
 
-from builder.units import UnitProblem, parse_quantity
+from builder.core.units import UnitProblem, parse_quantity
 
 
 @pytest.mark.parametrize("text, expected", [

@@ -9,7 +9,7 @@ Contents
 - ``joback_estimate``, ``joback_stein_brown_estimate``, ``tree_estimate``:
   one function per method.
 - ``descriptor_row(mol, model)``: the feature vector the fitted model reads,
-  shared with ``builder.fit_boiling`` so fit and runtime cannot drift.
+  shared with ``builder.fitting.boiling`` so fit and runtime cannot drift.
 
 The default method ("joback_sb_trees")
 -------------------------------------
@@ -32,7 +32,7 @@ its residual from
 where Tb_JSB is the corrected Joback sum over the atoms that have a group
 (``stein_brown.py``) and f_t is tree t.  The trees, the environment
 vocabulary and the uncertainty table live in ``builder/data/
-boiling_model.json``, written by ``python -m builder.fit_boiling`` from CRC
+boiling_model.json``, written by ``python -m builder.fitting.boiling`` from CRC
 Handbook boiling points (training 80 %); the trees are evaluated here in
 plain Python, so the runtime needs only RDKit.  Accuracy on the held-out
 20 % is in ``builder/data/boiling_validation.json``.
@@ -64,7 +64,14 @@ from typing import Any
 from rdkit import Chem
 from rdkit.Chem import Crippen, GraphDescriptors, rdMolDescriptors
 
-from builder.chem.joback import JOBACK_TB, TB_BASE, joback, joback_groups, joback_sum, to_mol
+from builder.chem.joback import (
+    JOBACK_TB,
+    TB_BASE,
+    joback,
+    joback_groups,
+    joback_sum,
+    to_mol,
+)
 from builder.chem.stein_brown import joback_stein_brown, stein_brown_correction
 
 MODEL_PATH = Path(__file__).resolve().parent.parent / "data" / "boiling_model.json"

@@ -25,7 +25,7 @@ embedded) geometry are used instead; that fallback is less accurate, and the
 ``method`` and ``status`` say so. Ions (net charge not zero) get no value: their
 dipole depends on the choice of origin.
 
-Accuracy, measured by ``python tests/bench_profile.py`` against the CCCBDB, Muller
+Accuracy, measured by ``python tools/bench_profile.py`` against the CCCBDB, Muller
 and Poling tables in ``chemicals`` 1.5.2 (neutral molecules of at most 30 heavy atoms
 whose reference moment is below 0.2 D or above 0.8 D; n = 532): mean absolute error
 0.57 D, median 0.42 D, polar/non-polar agreement 96.8 %. Typical misses: small

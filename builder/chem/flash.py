@@ -7,12 +7,12 @@ Contents
 - :func:`satyanarayana_rao`: flash point from Tb alone [2].
 - :func:`estimate_flash_point`: picks the best route the inputs allow and
   returns a :class:`FlashPointEstimate` with a standard uncertainty measured
-  against IEC 60079-20-1 flash points (``tests/report_volatility.py``).
+  against IEC 60079-20-1 flash points (``tools/report_volatility.py``).
 
 Units: temperatures [K], enthalpy [J/mol].
 
 Measured errors (reference Tb from ``chemicals.phase_change.Tb``; organics
-with at least one carbon atom; see ``tests/report_volatility.py``):
+with at least one carbon atom; see ``tools/report_volatility.py``):
 
 ============================================  ==========  ==========  ===========
 route                                         MAE, IEC    RMS, IEC    MAE, Serat

@@ -16,7 +16,7 @@ from functools import lru_cache
 from rdkit import Chem
 from rdkit.Chem import Descriptors
 
-from . import vapor
+from builder.chem import vapor
 
 #: elements the estimation routes were measured on (C, H, N, O, S, halogens)
 ORGANIC_ELEMENTS = frozenset({1, 6, 7, 8, 9, 15, 16, 17, 35, 53})

@@ -54,13 +54,6 @@ from rdkit import Chem
 from rdkit.Chem import Descriptors
 
 from builder.chem.dipole import POLAR_THRESHOLD_D, DipoleEstimate, ensemble_dipole
-from builder.chem.shape import (
-    electron_count,
-    polarizability,
-    principal_moment_ratios,
-    shape_class,
-    surface_area,
-)
 from builder.chem.features import (
     acceptor_atoms,
     donor_groups,
@@ -69,6 +62,13 @@ from builder.chem.features import (
     ionic_reason,
     largest_fragment,
     polar_bonds,
+)
+from builder.chem.shape import (
+    electron_count,
+    polarizability,
+    principal_moment_ratios,
+    shape_class,
+    surface_area,
 )
 from builder.chem.structure3d import (
     canonical_smiles,

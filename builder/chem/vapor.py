@@ -14,7 +14,7 @@ Contents
 - :func:`flexibility_tau`, :func:`hydrogen_bond_number`: the model's two
   structure numbers, from counts the caller supplies.
 - :func:`estimate_psat`: the estimate with a standard uncertainty measured
-  against Poling's Antoine table (see ``tests/report_volatility.py``).
+  against Poling's Antoine table (see ``tools/report_volatility.py``).
 - :func:`antoine_curve`, :func:`myrdal_yalkowsky_curve`: T grid -> P for charts.
 
 Units: T [K], P [Pa], molar mass [kg/mol], enthalpy [J/mol], entropy
@@ -264,7 +264,7 @@ def myrdal_yalkowsky_dSvb(tau: float = 0.0, hbn: float = 0.0) -> float:
 
     Notes
     -----
-    Measured here (``tests/report_volatility.py``): Tb*dSvb against the CRC
+    Measured here (``tools/report_volatility.py``): Tb*dSvb against the CRC
     Hvap at Tb in ``chemicals`` (``Hvap_data_CRC``) has a median absolute
     relative error of 2.7 % (n = 510 organics).
     """

@@ -23,7 +23,7 @@ pytest.importorskip("chemicals")
 
 @lru_cache(maxsize=1)
 def validation():
-    from builder.fit_boiling import load_records, validate
+    from builder.fitting.boiling import load_records, validate
 
     return validate(load_records(), load_model())
 

@@ -2,9 +2,7 @@
 
 from __future__ import annotations
 
-
 import pytest
-
 from conftest import report_volatility
 
 from builder.chem import flash

@@ -20,7 +20,7 @@ thermo_joback = pytest.importorskip("thermo.group_contribution.joback")
 
 @lru_cache(maxsize=1)
 def records():
-    from builder.fit_boiling import load_records
+    from builder.fitting.boiling import load_records
 
     return load_records()
 

@@ -6,7 +6,6 @@ import math
 
 import numpy as np
 import pytest
-
 from conftest import report_volatility
 
 from builder.chem import vapor

@@ -1,0 +1,93 @@
+"""Derive everything a datasheet shows from one entry: a pure function of the entry.
+
+``derive_entry(entry, locations)`` returns a ``Derived`` record: identity from the
+structure, the stated values, and every computed, estimated or rule-derived value,
+each a ``Value`` (or, for classifications in words, a ``Label``) with provenance; the
+force profile; handling notes; the vapor-pressure curve; and plausibility findings for
+``cohesion check``.  It reads nothing else and writes nothing, so results can be cached
+by entry and run in parallel.
+
+Order: identity → boiling point (stated, else estimated) → forces (uses the boiling
+point for the force excess) → vapor pressure, exposure, flash point, category, bands,
+handling notes.
+"""
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from typing import Mapping
+
+from builder.chem.handling import Note
+from builder.chem.identity import Identity, identify, parse_smiles
+from builder.core.diagnostics import Diagnostic
+from builder.core.model import Entry, Location, frozen_map
+from builder.core.values import Label, Provenance, Value, computed
+from builder.derive.boiling import boiling_values
+from builder.derive.fire import Segment, fire_values
+from builder.derive.forces import Forces, forces_of
+
+#: store temperature assumed when neither the entry nor its stores state one (K)
+DEFAULT_STORE_TEMPERATURE = 308.15
+
+
+@dataclass(frozen=True)
+class Derived:
+    """One entry with everything derived from it."""
+
+    entry: Entry
+    identity: Identity | None
+    values: Mapping[str, Value] = field(default_factory=frozen_map)
+    #: classifications in words: dominant_force, flammable_category, volatility_band, ...
+    labels: Mapping[str, Label] = field(default_factory=frozen_map)
+    forces: Forces | None = None
+    notes: tuple[Note, ...] = ()
+    curve: tuple[Segment, ...] = ()
+    #: findings for ``cohesion check`` (warnings about plausibility), with file positions
+    findings: tuple[Diagnostic, ...] = ()
+
+    def get(self, name: str) -> Value | None:
+        return self.values.get(name)
+
+    def label(self, name: str) -> Label | None:
+        return self.labels.get(name)
+
+
+def store_temperature(entry: Entry, locations: Mapping[str, Location] | None) -> Value:
+    """The warmest temperature the material may see in store: stated, else assumed."""
+    if entry.catalog.max_store_temperature is not None:
+        return entry.catalog.max_store_temperature
+    rated = [loc.max_store_temperature for loc in (locations or {}).values() if loc.max_store_temperature]
+    if rated:
+        return max(rated, key=lambda v: v.value)
+    return Value(DEFAULT_STORE_TEMPERATURE, "K", Provenance("assumed", method="default-store-temperature"))
+
+
+def derive_entry(entry: Entry, locations: Mapping[str, Location] | None = None) -> Derived:
+    """Everything the catalog derives for ``entry`` (``locations``: the stores it names)."""
+    identity = identify(entry.smiles) if entry.smiles else None
+    mol = parse_smiles(entry.smiles)[0] if entry.smiles else None
+    values: dict[str, Value] = {}
+    labels: dict[str, Label] = {}
+    findings: list[Diagnostic] = []
+    if identity is not None:
+        values["molar_mass"] = computed(identity.molar_mass, "g/mol", "molar-mass")
+        values["electron_count"] = computed(identity.electron_count, "count", "electron-count")
+    values.update(entry.properties)
+    tb_values, tb_findings = boiling_values(entry, mol if entry.type == "substance" else None)
+    values.update(tb_values)
+    findings += tb_findings
+    forces = None
+    if mol is not None:
+        forces = forces_of(mol, values.get("boiling_point"))
+        labels["dominant_force"] = forces.dominant
+    store_T = store_temperature(entry, locations)
+    values["store_temperature"] = store_T
+    if entry.catalog.process_temperature is not None:
+        values["process_temperature"] = entry.catalog.process_temperature
+    fire = fire_values(entry, mol, values, forces.dominant.code if forces else None, store_T,
+                       entry.catalog.process_temperature)
+    values.update(fire.values)
+    labels.update(fire.labels)
+    findings += fire.findings
+    notes = tuple(fire.notes)
+    return Derived(entry, identity, frozen_map(values), frozen_map(labels), forces, notes, tuple(fire.curve),
+                   tuple(findings))

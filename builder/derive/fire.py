@@ -1,0 +1,247 @@
+"""Volatility and fire for a datasheet: vapor pressure, exposure figures, flash point,
+GHS flammable-liquid category, COSHH volatility bands and handling notes.
+
+``fire_values(entry, mol, values, dominant_force, store_temperature)`` returns
+``FireResult``: values, labels, handling notes, the vapor-pressure curve segments for
+the chart, and findings for ``cohesion check``.
+"""
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+
+import numpy as np
+from rdkit import Chem
+
+from builder.chem import bands, exposure, flash, ghs, handling, vapor
+from builder.chem.flexibility import VaporStructure, vapor_structure
+from builder.core.diagnostics import Diagnostic
+from builder.core.model import Antoine as StatedAntoine
+from builder.core.model import Entry
+from builder.core.units import to_unit
+from builder.core.values import Label, Provenance, Value, estimated
+
+T20, T25 = 293.15, 298.15
+
+
+@dataclass(frozen=True)
+class Segment:
+    """A stretch of the vapor-pressure curve: kind is antoine, antoine-outside or estimated."""
+
+    kind: str
+    temperatures: tuple[float, ...]
+    pressures: tuple[float, ...]
+
+
+@dataclass
+class FireResult:
+    values: dict[str, Value] = field(default_factory=dict)
+    labels: dict[str, Label] = field(default_factory=dict)
+    notes: list[handling.Note] = field(default_factory=list)
+    curve: list[Segment] = field(default_factory=list)
+    findings: list[Diagnostic] = field(default_factory=list)
+
+
+def antoine_of(stated: StatedAntoine) -> vapor.Antoine:
+    """The entry's coefficients in the one internal form (log10, Pa, K)."""
+    factor = to_unit(1.0, stated.pressure_unit, "Pa")
+    A = stated.A + (math.log(factor) if stated.form == "ln" else math.log10(factor))
+    t_unit = "K" if stated.temperature_unit == "K" else "degC"
+    offset = 0.0 if t_unit == "K" else 273.15
+    return vapor.Antoine.from_published(A, stated.B, stated.C, base=stated.form, p_unit="Pa", t_unit=t_unit,
+                                        Tmin=stated.t_min - offset, Tmax=stated.t_max - offset)
+
+
+def _pressure_at(T: float, antoine: vapor.Antoine | None, tb: Value | None, vs: VaporStructure | None,
+                 antoine_source: str) -> Value | None:
+    if antoine is not None and antoine.in_range(T):
+        return Value(antoine.pressure(T).value, "Pa", Provenance("rule", method="antoine",
+                                                                   note=f"coefficients from {antoine_source}"))
+    if tb is None or vs is None or T >= tb.value:
+        return None
+    est = vapor.estimate_psat(T, tb.value, vs.tau, vs.hbn, vs.h_bond_donor)
+    u = est.value * est.u_ln  # standard uncertainty from the ln-uncertainty (first order)
+    if tb.kind == "estimated" and tb.uncertainty:
+        # propagate the boiling point's uncertainty: d ln P / d Tb by a central difference
+        h = 0.5
+        dlnp = (math.log(vapor.myrdal_yalkowsky_psat(T, tb.value + h, vs.tau, vs.hbn))
+                - math.log(vapor.myrdal_yalkowsky_psat(T, tb.value - h, vs.tau, vs.hbn))) / (2 * h)
+        u = est.value * math.hypot(est.u_ln, dlnp * tb.uncertainty)
+    why = "outside the Antoine range; " if antoine is not None else ""
+    low, high = est.value * math.exp(-u / est.value), est.value * math.exp(u / est.value)
+    return estimated(est.value, "Pa", "myrdal-yalkowsky", u,
+                     f"{why}from the {tb.kind} boiling point; 1σ range {low / 1000:.3g} to {high / 1000:.3g} kPa")
+
+
+def _curve(antoine: vapor.Antoine | None, tb: Value | None, vs: VaporStructure | None,
+           store_T: float) -> list[Segment]:
+    lo = 253.15
+    hi = max(store_T + 20.0, 333.15)
+    if tb is not None:
+        hi = min(max(hi, tb.value + 10.0), tb.value + 40.0)
+    grid = np.linspace(lo, hi, 121)
+    segments: list[Segment] = []
+    if antoine is not None:
+        pressures, inside = vapor.antoine_curve(antoine, grid)
+        for kind, mask in (("antoine", inside), ("antoine-outside", ~inside)):
+            # split the mask into contiguous runs so a line is not drawn across a gap
+            idx = np.flatnonzero(mask)
+            for run in np.split(idx, np.flatnonzero(np.diff(idx) > 1) + 1):
+                if len(run) > 1:
+                    segments.append(Segment(kind, tuple(np.round(grid[run], 3)), tuple(pressures[run])))
+    elif tb is not None and vs is not None:
+        below = grid[grid < tb.value]
+        if len(below) > 1:
+            segments.append(Segment("estimated", tuple(np.round(below, 3)),
+                                    tuple(vapor.myrdal_yalkowsky_curve(below, tb.value, vs.tau, vs.hbn))))
+    return segments
+
+
+def flash_estimate_applies(mol: Chem.Mol | None) -> bool:
+    """The flash-point correlations were fitted on flammable organics: skip molecules with more
+    halogen atoms than carbon atoms (dichloromethane, chloroform, tetrachloroethene), which are
+    hardly or not at all flammable (the catalog's own applicability rule)."""
+    if mol is None:
+        return False
+    symbols = [a.GetSymbol() for a in mol.GetAtoms()]
+    carbons = symbols.count("C")
+    halogens = sum(symbols.count(x) for x in ("F", "Cl", "Br", "I"))
+    return carbons > 0 and halogens <= carbons
+
+
+def _flash_point(entry: Entry, mol: Chem.Mol | None, tb: Value | None,
+                 vs: VaporStructure | None) -> tuple[Value | None, Value | None]:
+    stated = entry.properties.get("flash_point")
+    estimate = None
+    if tb is not None and flash_estimate_applies(mol):
+        n_c = vs.n_carbon if vs else None
+        args = dict(n_carbon=n_c, tau=vs.tau if vs else None, hbn=vs.hbn if vs else None)
+        est = flash.estimate_flash_point(tb.value, **args)
+        u = est.u
+        if tb.kind == "estimated" and tb.uncertainty:
+            slope = (flash.estimate_flash_point(tb.value + 0.5, **args).value
+                     - flash.estimate_flash_point(tb.value - 0.5, **args).value)
+            u = math.hypot(u, slope * tb.uncertainty)
+        method = "catoire-naudet" if est.method.startswith("Catoire") else "satyanarayana-rao"
+        estimate = estimated(est.value, "K", method, u, f"from the {tb.kind} boiling point")
+    return stated or estimate, estimate
+
+
+def _category(entry: Entry, fp: Value | None, tb: Value | None, result: FireResult) -> None:
+    if fp is None:
+        return
+    u_fp = fp.uncertainty if fp.kind == "estimated" else 0.0
+    u_tb = (tb.uncertainty or 0.0) if tb is not None and tb.kind == "estimated" else 0.0
+    rng = ghs.possible_categories(fp.value, u_fp or 0.0, tb.value if tb else None, u_tb)
+    cat = rng.most_likely
+    estimated_inputs = [name for name, v in (("flash point", fp), ("boiling point", tb))
+                        if v is not None and v.kind == "estimated"]
+    note = "rests on an estimated " + " and ".join(estimated_inputs) if estimated_inputs else None
+    possible = sorted(rng.categories, key=lambda c: 5 if c is None else c)
+
+    def words(c):
+        return "not a flammable liquid" if c is None else f"category {c}"
+
+    if len(possible) > 1:
+        text = " or ".join(words(c) for c in possible)
+        text = text[0].upper() + text[1:] + f" (most likely {words(cat)})"
+    else:
+        text = words(cat)[0].upper() + words(cat)[1:]
+    if cat is not None:
+        text += f" — {ghs.HAZARD_STATEMENTS[cat][0]}"
+    result.labels["flammable_category"] = Label(text, Provenance("rule", method="ghs-flammable-liquid", note=note),
+                                                cat)
+    result.labels["flammable_category_range"] = Label(
+        ", ".join("none" if c is None else str(c) for c in possible),
+        Provenance("rule", method="ghs-flammable-liquid", note=note), tuple(possible))
+    if not entry.hazard_statements or entry.path == "<command line>":
+        return  # nothing declared, nothing to disagree with
+    message = ghs.check_declared_statements(entry.hazard_statements, cat, rng.categories,
+                                            category_4_adopted=False)
+    if message:
+        line, col = entry.line_of("hazard_statements")
+        result.findings.append(Diagnostic(entry.path, line, col, "warning",
+                                          f"hazard statements disagree with the flash point: {message}",
+                                          "check the H-codes against the flash point and boiling point"))
+
+
+def _band(tb: Value, T: float, note: str) -> Label:
+    band = bands.volatility_band(tb.value, T)
+    basis = f"{note}; from the {tb.kind} boiling point"
+    return Label(f"{band} volatility", Provenance("rule", method="coshh-volatility-band", note=basis), band)
+
+
+def fire_values(entry: Entry, mol: Chem.Mol | None, values: dict[str, Value], dominant_force: str | None,
+                store_temperature: Value, process_temperature: Value | None = None) -> FireResult:
+    """Everything about evaporation and fire that follows from the values derived so far."""
+    result = FireResult()
+    tb = values.get("boiling_point")
+    vs = vapor_structure(mol) if mol is not None else None
+    antoine = antoine_of(entry.antoine) if entry.antoine else None
+    for T, key in ((T20, "vapor_pressure_20C"), (T25, "vapor_pressure_25C")):
+        v = _pressure_at(T, antoine, tb, vs, entry.antoine.source if entry.antoine else "")
+        if v is not None:
+            result.values[key] = Value(v.value, v.unit, v.provenance, v.uncertainty, (("at", T),))
+    if tb is not None and vs is not None:
+        dh = vapor.myrdal_yalkowsky_dHvap(tb.value, tb.value, vs.tau, vs.hbn)
+        result.values["enthalpy_of_vaporization"] = estimated(dh, "J/mol", "myrdal-yalkowsky-hvap", 0.04 * dh,
+                                                              f"at the {tb.kind} boiling point")
+    result.curve = _curve(antoine, tb, vs, store_temperature.value)
+    mm = values.get("molar_mass")
+    p20 = result.values.get("vapor_pressure_20C")
+    if p20 is not None:
+        svc = exposure.saturated_vapor_concentration_ppm(p20.value)
+        unc = svc * p20.uncertainty / p20.value if p20.uncertainty else None
+        result.values["saturated_vapor_concentration_20C"] = Value(
+            svc, "ppm", Provenance("rule", method="saturated-vapor-concentration",
+                                   note=f"from the vapor pressure at 20 °C ({p20.kind})"), unc)
+        oel = entry.properties.get("exposure_limit")
+        if oel is not None:
+            result.values["vapor_hazard_ratio"] = Value(
+                exposure.vapor_hazard_ratio(svc, oel.value), "dimensionless",
+                Provenance("rule", method="vapor-hazard-ratio", note=f"exposure limit from {oel.provenance.source}"))
+    if mm is not None:
+        result.values["vapor_density_relative"] = Value(
+            exposure.relative_vapor_density(mm.value / 1000.0), "dimensionless",
+            Provenance("assumed", method="vapor-density-ideal-gas"))
+    fp, fp_estimate = _flash_point(entry, mol, tb, vs)
+    if fp is not None:
+        result.values["flash_point"] = fp
+    if fp_estimate is not None and fp_estimate is not fp:
+        result.values["flash_point_estimate"] = fp_estimate
+    _category(entry, fp, tb, result)
+    if tb is not None:
+        result.labels["volatility_band"] = _band(tb, bands.ROOM_TEMPERATURE, "at 20 °C")
+        if process_temperature is not None:
+            result.labels["volatility_band_process"] = _band(
+                tb, process_temperature.value, f"at the process temperature {process_temperature.value - 273.15:.0f} °C")
+    result.notes = handling.evaluate_rules(_facts(entry, mol, values, result, dominant_force, store_temperature))
+    return result
+
+
+def _facts(entry, mol, values, result, dominant_force, store_temperature) -> dict:
+    cat = result.labels.get("flammable_category")
+    density = values.get("density")
+    log_kow = entry.properties.get("log_kow")
+    fp = result.values.get("flash_point")
+    tb = values.get("boiling_point")
+    vd = result.values.get("vapor_density_relative")
+    vhr = result.values.get("vapor_hazard_ratio")
+    band = result.labels.get("volatility_band")
+    facts = {
+        "flammable_category": cat.code if cat else None,
+        "flash_point": fp.value if fp else None,
+        "boiling_point": tb.value if tb else None,
+        "store_max_temperature": store_temperature.value,
+        "store_max_temperature_basis": "assumed default" if store_temperature.kind == "assumed" else "stated",
+        "vapor_density_ratio": vd.value if vd else None,
+        "dominant_force": dominant_force,
+        "is_hydrocarbon": (all(a.GetSymbol() in ("C", "H") for a in mol.GetAtoms()) if mol is not None else None),
+        "density": density.value if density else None,
+        "log_p": log_kow.value if log_kow else None,
+        "vapor_hazard_ratio": vhr.value if vhr else None,
+        "volatility_band": band.code if band else None,
+    }
+    if mol is not None and facts["log_p"] is None and dominant_force == "dispersion" and facts["is_hydrocarbon"]:
+        facts["water_miscible"] = False  # hydrocarbons: practically immiscible with water (common practice)
+    return {k: v for k, v in facts.items() if v is not None}

@@ -1,0 +1,57 @@
+"""Store-level views for the printouts: which materials a store holds, their conflicts with the
+store's temperature rating, and notes that apply to the store as a whole.
+
+Rules (our own wording; the criteria are the GHS category and flash/boiling points):
+
+- a material conflicts with a store when the store's rated temperature reaches its flash point
+  (ignitable vapor above the liquid) or comes within 5 K of its boiling point (pressure build-up);
+- store-wide notes: more than one category-1 liquid; the number of flammable liquids
+  (categories 1–3) kept together; flammable liquids in a store with no temperature rating.
+"""
+from __future__ import annotations
+
+from builder.core.model import Catalog
+from builder.derive.entry import Derived
+
+BOILING_MARGIN_K = 5.0
+
+
+def conflicts(d: Derived, rated_K: float | None) -> list[str]:
+    if rated_K is None:
+        return []
+    out = []
+    fp, bp = d.get("flash_point"), d.get("boiling_point")
+    if fp is not None and rated_K >= fp.value:
+        out.append(f"store reaches the flash point ({fp.value - 273.15:.0f} °C{', estimated' if fp.kind == 'estimated' else ''})")
+    if bp is not None and rated_K >= bp.value - BOILING_MARGIN_K:
+        out.append(f"store within {BOILING_MARGIN_K:.0f} K of the boiling point ({bp.value - 273.15:.0f} °C): pressure build-up")
+    return out
+
+
+def store_sheet(catalog: Catalog, derived: tuple[Derived, ...], key: str) -> dict:
+    """Context for one store sheet, materials in a stable order (category, then name)."""
+    loc = catalog.locations[key]
+    rated = loc.max_store_temperature.value if loc.max_store_temperature else None
+    members = [d for d in derived if key in d.entry.catalog.locations]
+
+    def order(d):
+        cat = d.label("flammable_category")
+        return (cat.code if cat and cat.code is not None else 9, d.entry.name.lower(), d.entry.id)
+
+    members.sort(key=order)
+    cats = [d.label("flammable_category").code for d in members if d.label("flammable_category")]
+    notes = []
+    if cats.count(1) > 1:
+        notes.append(f"{cats.count(1)} category-1 liquids (extremely flammable, boiling at or below 35 °C) are kept "
+                     "here together: keep quantities to the minimum and the store cool and ventilated.")
+    flammable = [c for c in cats if c in (1, 2, 3)]
+    if flammable:
+        notes.append(f"{len(flammable)} flammable liquid{'s' if len(flammable) != 1 else ''} (GHS categories 1–3) "
+                     "kept here: the store must be one intended for flammable liquids.")
+        if rated is None:
+            notes.append("No temperature rating is recorded for this store: the conflicts column cannot be checked.")
+    n_conflicts = sum(1 for d in members if conflicts(d, rated))
+    if n_conflicts:
+        notes.append(f"{n_conflicts} material{'s' if n_conflicts != 1 else ''} can reach a flash point or boiling "
+                     "point at the store's rated temperature (see the last column).")
+    return {"loc": loc, "members": [(d, conflicts(d, rated)) for d in members], "store_notes": notes}

@@ -1,0 +1,188 @@
+"""Render the derived catalog into a folder of static pages (Jinja2).
+
+Autoescaping is on for every template and undefined names are errors.  Each page
+gets a ``url()`` that turns a site path into a link relative to that page, so the
+site works from a web server and straight from disk (file://).
+"""
+from __future__ import annotations
+
+import json
+import posixpath
+from pathlib import Path
+
+import jinja2
+from markupsafe import Markup
+
+from builder import __version__
+from builder.chem.handling import DISCLAIMER as NOTES_DISCLAIMER
+from builder.core.methods import METHODS
+from builder.core.quantities import STATED_PROPERTIES as PROPERTIES
+from builder.core.units import format_value
+from builder.core.values import KINDS, Label
+from builder.derive.forces import FORCE_WORDS
+
+TEMPLATES = Path(__file__).resolve().parents[2] / "templates"
+
+#: compact marks for provenance kinds, explained in the legend of every page
+KIND_MARKS = {"measured": "M", "literature": "L", "supplier": "S", "computed": "C",
+              "estimated": "E", "rule": "R", "assumed": "A"}
+CAUTION = ("For internal reference only. This catalog summarises properties of materials held on site; "
+           "it is not a safety data sheet. The supplier's safety data sheet (SDS), local regulations and "
+           "the site's safety rules take precedence.")
+
+
+#: methods page id → key of the stored boiling-point validation results
+BOILING_TABLE_METHODS = {"tb-joback-sb-trees": "joback_sb_trees", "tb-joback-stein-brown": "joback_stein_brown",
+                         "tb-joback": "joback"}
+VALIDATION_PATH = Path(__file__).resolve().parents[1] / "data" / "boiling_validation.json"
+
+
+def _boiling_validation() -> dict | None:
+    """The stored results of ``python -m builder.fitting.boiling`` (not typed in by hand)."""
+    if not VALIDATION_PATH.exists():
+        return None
+    return json.loads(VALIDATION_PATH.read_text(encoding="utf-8"))
+
+
+def environment(templates: Path = TEMPLATES) -> jinja2.Environment:
+    if not (templates / "base.html").exists():
+        raise FileNotFoundError(f"templates not found in {templates}: install the project with 'pip install -e .'")
+    env = jinja2.Environment(
+        loader=jinja2.FileSystemLoader(str(templates)),
+        autoescape=jinja2.select_autoescape(["html", "xml", "j2", "svg"], default=True, default_for_string=True),
+        undefined=jinja2.StrictUndefined,
+        trim_blocks=True,
+        lstrip_blocks=True,
+        keep_trailing_newline=True,
+    )
+    env.filters["formula"] = formula_markup
+    env.globals.update(KIND_MARKS=KIND_MARKS, KINDS=KINDS, CAUTION=CAUTION, METHODS=METHODS,
+                       version=__version__, property_label=property_label, condition_text=condition_text,
+                       temperature_text=temperature_text, FORCE_WORDS=FORCE_WORDS, first_sentence=first_sentence,
+                       NOTES_DISCLAIMER=NOTES_DISCLAIMER,
+                       BOILING_TABLE_METHODS=BOILING_TABLE_METHODS, is_label=lambda v: isinstance(v, Label), boiling_validation=_boiling_validation())
+    return env
+
+
+#: how derived values are named on the pages
+VALUE_LABELS = {
+    "molar_mass": "Molar mass",
+    "electron_count": "Electrons per molecule",
+    "boiling_point_estimate": "Boiling point, estimated from structure",
+    "boiling_point_residual": "Stated minus estimated boiling point",
+    "flash_point_estimate": "Flash point, estimated",
+    "vapor_pressure_20C": "Vapor pressure at 20 °C",
+    "vapor_pressure_25C": "Vapor pressure at 25 °C",
+    "enthalpy_of_vaporization": "Enthalpy of vaporization at the boiling point",
+    "saturated_vapor_concentration_20C": "Saturated vapor concentration at 20 °C",
+    "vapor_density_relative": "Vapor density (air = 1)",
+    "vapor_hazard_ratio": "Vapor hazard ratio (saturated concentration / exposure limit)",
+    "store_temperature": "Highest store temperature",
+    "process_temperature": "Process temperature",
+    "polarizability": "Polarizability",
+    "dipole_moment": "Dipole moment",
+    "hbond_donors": "Hydrogen-bond donors (H on N, O, F)",
+    "hbond_acceptors": "Hydrogen-bond acceptors (N, O, F lone pairs)",
+    "shape_npr1": "Shape: moment ratio I1/I3",
+    "shape_npr2": "Shape: moment ratio I2/I3",
+    "surface_area": "Surface area",
+    "force_excess": "Force excess over the n-alkane of equal mass",
+    "dominant_force": "Dominant force",
+    "flammable_category": "GHS flammable liquid category",
+    "flammable_category_range": "Possible categories",
+    "volatility_band": "Volatility band at 20 °C",
+    "volatility_band_process": "Volatility band at the process temperature",
+}
+
+
+def property_label(name: str) -> str:
+    spec = PROPERTIES.get(name)
+    if spec:
+        return spec.label
+    return VALUE_LABELS.get(name, name.replace("_", " ").capitalize())
+
+
+def temperature_text(kelvin: float) -> str:
+    return format_value(kelvin, "K")
+
+
+def condition_text(key: str, si_value: float) -> str:
+    if key == "at":
+        return f"at {format_value(si_value, 'K')}"
+    return f"at {si_value / 1000.0:.6g} kPa"
+
+
+def formula_markup(formula: str) -> Markup:
+    """C2H6O → C<sub>2</sub>H<sub>6</sub>O, escaping everything else."""
+    out = []
+    for ch in formula:
+        out.append(f"<sub>{ch}</sub>" if ch.isdigit() else str(Markup.escape(ch)))
+    return Markup("".join(out).replace("</sub><sub>", ""))
+
+
+def relative(page: str, target: str) -> str:
+    """Link from site path ``page`` to site path ``target`` (both posix, relative to the site root)."""
+    anchor = ""
+    if "#" in target:
+        target, anchor = target.split("#", 1)
+        anchor = "#" + anchor
+    if not target:
+        return anchor
+    return posixpath.relpath(target, posixpath.dirname(page) or ".") + anchor
+
+
+def value_link(value) -> str:
+    """Site path of the source or method a value's tag links to."""
+    prov = value.provenance
+    if prov.source:
+        return f"sources.html#src-{prov.source}"
+    return f"methods.html#m-{prov.method}"
+
+
+def revision_text(revision, entry) -> str:
+    """'entry revision 1a2b3c4 (2026-11-30)' from git, or a plain statement that there is none."""
+    if revision is None or revision.commit is None:
+        return "entry revision: not in a git repository"
+    name = entry.path.rsplit("/", 1)[-1]
+    found = revision.per_file.get(name)
+    if not found:
+        return "entry revision: not yet committed"
+    short, date = found
+    return f"entry revision {short} ({date[:10]})"
+
+
+def first_sentence(text: str) -> str:
+    """The first sentence of a note, for the small space of a shelf card."""
+    head, sep, _ = text.partition(". ")
+    return head + "." if sep else text
+
+
+class Writer:
+    """Renders pages into ``out`` and remembers what was written."""
+
+    def __init__(self, env: jinja2.Environment, out: Path):
+        self.env = env
+        self.out = out
+        self.written: list[str] = []
+
+    def page(self, path: str, template: str, **context) -> None:
+        def url(target: str) -> str:
+            return relative(path, target)
+
+        root = relative(path, "index.html")[: -len("index.html")]
+        text = self.env.get_template(template).render(url=url, value_link=value_link, page_path=path, root=root,
+                                                      **context)
+        self.text(path, text)
+
+    def text(self, path: str, text: str) -> None:
+        target = self.out / path
+        target.parent.mkdir(parents=True, exist_ok=True)
+        with open(target, "w", encoding="utf-8", newline="\n") as fh:
+            fh.write(text)
+        self.written.append(path)
+
+    def copy(self, path: str, source: Path) -> None:
+        target = self.out / path
+        target.parent.mkdir(parents=True, exist_ok=True)
+        target.write_bytes(source.read_bytes())
+        self.written.append(path)

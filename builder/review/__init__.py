@@ -1,0 +1,1 @@
+"""Reviewer tools: plausibility checks, the change report between revisions, entry scaffolding."""
