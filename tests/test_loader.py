@@ -107,3 +107,73 @@ def test_dates_stay_text_and_no_becomes_an_error(make_entries):
     # YAML 1.1 reads an unquoted "no" as false: the type check catches it.
     _, diags = _diagnostics(make_entries, "name: no\nsmiles: CCO\n")
     assert any("must be text" in d.message for d in diags)
+
+
+# ----------------------------------------------------------------------------- hardening (see also tests/corpus)
+
+def test_unusual_but_possible_values_still_load(make_entries):
+    """Only the impossible is an error at load; the unusual is left to the plausibility warnings."""
+    text = ("name: A\nsmiles: CCO\ncatalog:\n  max_store_temperature: -196 °C\nproperties:\n"
+            "  density: {value: 21 g/cm3, source: crc-95}\n  boiling_point: {value: 5500 K, source: crc-95}\n"
+            "  refractive_index: {value: 4.0, source: crc-95}\n")
+    catalog, diags = _diagnostics(make_entries, text)
+    assert catalog is not None, [str(d) for d in diags]
+
+
+def test_the_first_of_duplicate_keys_is_the_one_kept(make_entries):
+    # the duplicate is an error at its line; the first value is the one any other check sees
+    text = "name: A\nsmiles: CCO\nproperties:\n  boiling_point:\n    value: 78 °C\n    value: 1e30 K\n    source: crc-95\n"
+    _, diags = _diagnostics(make_entries, text)
+    assert [(d.line, d.message) for d in diags] == [(6, "duplicate key 'value'")]
+
+
+def test_bom_and_crlf_keep_lines_and_columns(make_entries):
+    text = "\ufeffname: A\r\nsmiles: CCO\r\ncas: 64-17-6\r\n"
+    _, diags = _diagnostics(make_entries, text)
+    assert [(d.line, d.col) for d in diags] == [(3, 6)]
+
+
+def test_symlink_inside_the_folder_is_read_under_its_own_name(make_entries):
+    folder = make_entries({})
+    (folder / "kept").mkdir()
+    (folder / "kept" / "real.txt").write_text(ETHANOL, encoding="utf-8")
+    (folder / "ethanol.yaml").symlink_to("kept/real.txt")
+    catalog, diags = load_catalog(folder)
+    assert [e.id for e in catalog.entries] == ["ethanol"], [str(d) for d in diags]
+
+
+def test_a_named_pipe_is_never_opened(make_entries):
+    import os
+    import threading
+
+    folder = make_entries({"ethanol.yaml": ETHANOL})
+    os.mkfifo(folder / "pipe.yaml")
+    result = {}
+    worker = threading.Thread(target=lambda: result.setdefault("out", load_catalog(folder)), daemon=True)
+    worker.start()
+    worker.join(20)
+    assert "out" in result, "load_catalog blocked on a named pipe"
+    catalog, diags = result["out"]
+    assert catalog is None and [d.message for d in diags] == ["a named pipe (FIFO), not a file; skipped"]
+
+
+@pytest.mark.parametrize("text, message", [
+    (".nan", "not a finite number"), ("1e999 K", "not a finite number"), ("78 ± 1e999 K", "uncertainty"),
+    ("78 ± -2 K", "negative"), ("78 delta_degC", "temperature difference"), ("78 Δ°F", "temperature difference"),
+    ("78 ± K", "cannot read the uncertainty"), ("7" * 1001 + " K", "too long"),
+])
+def test_parse_quantity_refuses(text, message):
+    from builder.core.units import UnitProblem, parse_quantity
+
+    with pytest.raises(UnitProblem, match=message):
+        parse_quantity(text if text != ".nan" else float("nan"), "temperature" if text != ".nan" else "ratio")
+
+
+def test_antoine_check_accepts_every_demo_equation():
+    from conftest import DEMO
+
+    from builder.load.entries import load_catalog as load
+
+    catalog, diags = load(DEMO)
+    assert catalog is not None and not [d for d in diags if d.severity == "error"]
+    assert sum(e.antoine is not None for e in catalog.entries) >= 5

@@ -94,3 +94,18 @@ HAZARD_PATTERN = r"^(?:EU)?H\d{3}[A-Za-z]{0,2}(?:\+H\d{3}[A-Za-z]{0,2})*$"
 CAS_PATTERN = r"^\d{2,7}-\d{2}-\d$"
 #: a molecular formula: element symbols with counts, optionally a charge (C2H6O, C7H8, C2H3O2-)
 FORMULA_PATTERN = r"^(?:[A-Z][a-z]?\d*)+(?:[+-]\d*)?$"
+
+#: longest entry id, source key and location key (ids become file names of the site)
+MAX_ID_LENGTH = 64
+#: names an entry id or a location key may not take: the site's own pages and folders
+#: (builder/publish/site.py: index.html, cards/all.html, …; a test keeps this list complete)
+#: and the names Windows reserves for devices, so a copied site opens everywhere
+SITE_NAMES = ("index", "forces", "stores", "categories", "trends", "sources", "methods", "build", "all",
+              "assets", "charts", "cards", "materials", "data", "catalog", "search-index")
+DEVICE_NAMES = ("con", "prn", "aux", "nul") + tuple(f"com{i}" for i in range(10)) + tuple(f"lpt{i}" for i in range(10))
+RESERVED_NAMES = SITE_NAMES + DEVICE_NAMES
+#: an entry id ending in this names the vapor-pressure chart of the entry without it
+#: (materials/<id>-vapor.svg), so ``x-vapor`` is refused when an entry ``x`` exists
+CHART_SUFFIX = "-vapor"
+#: SMILES wildcard atom: a structure with one is not a substance
+SMILES_WILDCARD = "*"

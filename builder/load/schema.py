@@ -10,7 +10,8 @@ help and checks while typing.  The schema is generated, never edited by hand:
 
 The schema checks structure, types, units (the common spellings of ``UNIT_SPELLINGS``)
 and patterns; the loader checks the rest (CAS check digits, SMILES, physical limits,
-that sources and locations exist).  An entry the schema accepts may still be refused by
+that sources and locations exist, and that an Antoine equation's coefficients, units
+and range agree).  An entry the schema accepts may still be refused by
 the loader, never the other way round for the structure.
 """
 from __future__ import annotations
@@ -50,14 +51,23 @@ def _units_pattern(units) -> str:
 
 
 def quantity_schema(dimension: str, unit: str | None = None, description: str = "",
-                    minimum: float | None = None) -> dict:
-    """A ``"<number> [± <number>] <unit>"`` text of ``dimension`` (or a bare number if dimensionless)."""
+                    minimum: float | None = None, possible: tuple[float, float] | None = None) -> dict:
+    """A ``"<number> [± <number>] <unit>"`` text of ``dimension`` (or a bare number if dimensionless).
+
+    ``possible`` (low, high) is the physically possible range of a dimensionless value.
+    """
     dim = DIMENSIONS[dimension]
+    maximum = None
+    if possible is not None:
+        minimum = possible[0] if minimum is None else max(minimum, possible[0])
+        maximum = possible[1]
     if dimension == "ratio":
         if minimum is None:  # a bare number, or the same as text
             out = {"anyOf": [{"type": "number"}, {"type": "string", "pattern": rf"^\s*{_NUMBER}\s*$"}]}
-        else:  # a lower limit can only be checked on a number
+        else:  # a limit can only be checked on a number
             out = {"anyOf": [{"type": "number", "minimum": minimum}]}
+            if maximum is not None:
+                out["anyOf"][0]["maximum"] = maximum
     else:
         units = (unit,) if unit else UNIT_SPELLINGS[dimension]
         out = {"type": "string",
@@ -65,7 +75,8 @@ def quantity_schema(dimension: str, unit: str | None = None, description: str = 
     text = description or f"a {dim.name}, e.g. '{dim.example}'"
     out["description"] = text
     out["examples"] = [x for x in EXAMPLES[unit if unit else dimension]
-                       if minimum is None or dimension != "ratio" or float(x) >= minimum]
+                       if dimension != "ratio" or ((minimum is None or float(x) >= minimum)
+                                                   and (maximum is None or float(x) <= maximum))]
     return out
 
 
@@ -85,8 +96,9 @@ def _field(spec: fmt.FieldSpec) -> dict:
         out = {"type": "array", "items": {"type": "string", "pattern": fmt.HAZARD_PATTERN,
                                           "examples": ["H225", "H319", "H304", "EUH066"]}}
     elif kind == "location_list":
-        out = {"anyOf": [{"type": "string", "pattern": fmt.ID_PATTERN},
-                         {"type": "array", "items": {"type": "string", "pattern": fmt.ID_PATTERN}}]}
+        key = {"type": "string", "pattern": fmt.ID_PATTERN, "maxLength": fmt.MAX_ID_LENGTH,
+               "not": {"enum": list(fmt.RESERVED_NAMES)}}
+        out = {"anyOf": [dict(key), {"type": "array", "items": dict(key)}]}
     elif kind == "quantity":
         return quantity_schema(spec.dimension, description=spec.help)
     elif kind == "catalog":
@@ -103,7 +115,7 @@ def _field(spec: fmt.FieldSpec) -> dict:
 
 
 def _source() -> dict:
-    return {"type": "string", "pattern": fmt.ID_PATTERN, "description": fmt.PROPERTY_HELP["source"],
+    return {"type": "string", "pattern": fmt.ID_PATTERN, "maxLength": fmt.MAX_ID_LENGTH, "description": fmt.PROPERTY_HELP["source"],
             "examples": ["crc-95", "poling-2001"]}
 
 
@@ -121,7 +133,8 @@ def _property(name: str, spec: fmt.PropertySpec) -> dict:
     help_text = spec.label + (f": {spec.help}" if spec.help else "")
     return {"type": "object", "additionalProperties": False, "required": required, "description": help_text,
             "properties": {
-                "value": quantity_schema(spec.dimension, spec.unit, fmt.PROPERTY_HELP["value"], spec.minimum),
+                "value": quantity_schema(spec.dimension, spec.unit, fmt.PROPERTY_HELP["value"], spec.minimum,
+                                         spec.possible),
                 "source": _source(), "provenance": _provenance(), "conditions": conditions,
                 "method": dict(_TEXT, description=fmt.PROPERTY_HELP["method"]),
                 "note": dict(_TEXT, description=fmt.PROPERTY_HELP["note"])}}

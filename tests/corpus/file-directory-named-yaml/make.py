@@ -1,0 +1,2 @@
+def make(entries):
+    (entries / "folder.yaml").mkdir()

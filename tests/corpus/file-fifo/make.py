@@ -1,0 +1,5 @@
+import os
+
+
+def make(entries):
+    os.mkfifo(entries / "blocked.yaml")

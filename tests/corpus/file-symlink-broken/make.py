@@ -1,0 +1,2 @@
+def make(entries):
+    (entries / "gone.yaml").symlink_to("missing-target.yaml")

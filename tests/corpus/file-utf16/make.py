@@ -1,0 +1,2 @@
+def make(entries):
+    (entries / "wide.yaml").write_bytes("name: Wide\nsmiles: CCO\n".encode("utf-16"))
