@@ -58,14 +58,32 @@ def _syntax_reason(smiles: str) -> str:
     return reason.replace("SMILES Parse Error: ", "")
 
 
+#: longest SMILES read at all (characters): longer text is refused before RDKit sees it
+MAX_SMILES_LENGTH = 20_000
+#: largest structure the catalog derives anything for (heavy atoms); drawing and the
+#: boiling-point descriptors grow faster than linearly, so beyond this nothing is bounded
+MAX_HEAVY_ATOMS = 1000
+
+
 def parse_smiles(smiles: str):
-    """Return ``(mol, None)`` or ``(None, reason)`` with RDKit's own first complaint."""
+    """Return ``(mol, None)`` or ``(None, reason)`` with RDKit's own first complaint.
+
+    Structures above :data:`MAX_HEAVY_ATOMS` heavy atoms (or SMILES longer than
+    :data:`MAX_SMILES_LENGTH` characters) are refused with a reason saying so.
+    """
+    if len(smiles) > MAX_SMILES_LENGTH:
+        return None, (f"the SMILES is {len(smiles)} characters long; "
+                      f"at most {MAX_SMILES_LENGTH} are read")
     with rdBase.BlockLogs():
         raw = Chem.MolFromSmiles(smiles, sanitize=False)
     if raw is None:
         return None, _syntax_reason(smiles)
     if raw.GetNumAtoms() == 0:
         return None, "the SMILES holds no atoms"
+    heavy = sum(1 for atom in raw.GetAtoms() if atom.GetAtomicNum() != 1)
+    if heavy > MAX_HEAVY_ATOMS:
+        return None, (f"the structure has {heavy} heavy atoms; properties are derived "
+                      f"for at most {MAX_HEAVY_ATOMS}")
     problems = Chem.DetectChemistryProblems(raw)
     if problems:
         return None, problems[0].Message()

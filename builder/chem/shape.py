@@ -168,7 +168,8 @@ def principal_moment_ratios(coordinates: np.ndarray, masses: np.ndarray) -> tupl
 
     with :math:`I_k` the principal moments of the mass-weighted inertia tensor about
     the centre of mass. The pair lies in a triangle: rod (0, 1), disc (0.5, 0.5),
-    sphere (1, 1). A single atom returns (1, 1): it is spherical.
+    sphere (1, 1). A single atom returns (1, 1): it is spherical. Atoms without mass
+    (dummy atoms ``*``) are weighted equally when nothing else carries mass.
 
     Parameters
     ----------
@@ -179,6 +180,8 @@ def principal_moment_ratios(coordinates: np.ndarray, masses: np.ndarray) -> tupl
     """
     xyz = np.asarray(coordinates, dtype=float)
     m = np.asarray(masses, dtype=float)
+    if not m.sum() > 0:  # only dummy atoms ("*", mass 0): fall back to the geometry alone
+        m = np.ones_like(m)
     centred = xyz - (m @ xyz) / m.sum()
     r2 = np.einsum("ij,ij->i", centred, centred)
     tensor = np.eye(3) * (m @ r2) - np.einsum("i,ij,ik->jk", m, centred, centred)

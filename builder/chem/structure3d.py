@@ -22,6 +22,20 @@ Results are reproducible for a given RDKit version only (the embedding depends o
 RDKit's random number stream). The cached :class:`ConformerEnsemble` holds an RDKit
 Mol: callers must treat it as read-only.
 
+Budget
+------
+3D work grows steeply with size, so it is bounded. A molecule (the fragment being
+embedded) with more heavy atoms than :func:`max_3d_atoms` (default
+:data:`MAX_3D_ATOMS`, changed with the environment variable ``COHESION_MAX_3D_ATOMS``)
+is not embedded at all: the ensemble is empty and its status starts with
+:data:`TOO_LARGE`, which the dipole, shape and force profile pass on. Below the
+limit the work is bounded by counts, not the clock, so results stay deterministic:
+embedding attempts (:data:`_MAX_EMBED_ATTEMPTS`) and minimiser iterations
+(:data:`_MAX_ITERS`) are capped, and above :data:`FULL_ENSEMBLE_ATOMS` heavy atoms the
+number of conformers and iterations shrinks with the square of the size (the status
+says so). :data:`EMBED_TIMEOUT_S` is a clock-based safety net on top. Measured on one
+core: at most about 5 s for 100 heavy atoms.
+
 References
 ----------
 .. [1] Riniker, S.; Landrum, G. A. Better Informed Distance Geometry: Using What We
@@ -41,6 +55,7 @@ References
 from __future__ import annotations
 
 import functools
+import os
 from dataclasses import dataclass
 
 import numpy as np
@@ -49,14 +64,20 @@ from rdkit.Chem import AllChem, rdForceFieldHelpers
 
 __all__ = [
     "EMBED_SEED",
+    "EMBED_TIMEOUT_S",
+    "MAX_3D_ATOMS",
+    "MAX_3D_ATOMS_VARIABLE",
     "MAX_CONFORMERS",
     "TEMPERATURE_K",
+    "TOO_LARGE",
     "ConformerEnsemble",
     "canonical_smiles",
     "clear_cache",
     "conformer_ensemble",
     "conformer_stereo",
     "count_torsions",
+    "max_3d_atoms",
+    "too_large_for_3d",
     "unspecified_stereo",
 ]
 
@@ -78,6 +99,26 @@ _MAX_ITERS = 500
 _MAX_EMBED_ATTEMPTS = 100
 """Embedding attempts per conformer: bounds the time spent on geometrically impossible
 stereoisomers (a count, not a clock, so results stay deterministic)."""
+
+EMBED_TIMEOUT_S = 10
+"""Wall-clock limit of one embedding call [s]: a safety net only (the counts and the
+heavy-atom limit keep every molecule below it); when it strikes, embedding has failed."""
+
+MAX_3D_ATOMS = 100
+"""Default heavy-atom limit of the 3D work (embedding, force field, dipole, shape)."""
+
+MAX_3D_ATOMS_VARIABLE = "COHESION_MAX_3D_ATOMS"
+"""Environment variable that overrides :data:`MAX_3D_ATOMS` (a whole number, 0 or more)."""
+
+FULL_ENSEMBLE_ATOMS = 30
+"""Up to this many heavy atoms the full ensemble is built (:data:`MAX_CONFORMERS`,
+:data:`_MAX_ITERS`); the dipole reference comparison lies within it."""
+
+_MIN_ITERS_LARGE = 200
+"""Fewest minimiser iterations per conformer for a large molecule."""
+
+TOO_LARGE = "not computed: too large"
+"""How every status of a skipped 3D step begins."""
 
 _TORSION = Chem.MolFromSmarts("[!#1;!D1;!$(*#*)]-&!@[!#1;!D1;!$(*#*)]")
 _SYMMETRIC_TOPS = tuple(
@@ -134,6 +175,28 @@ class ConformerEnsemble:
         energies = np.asarray(self.energies_kcal_mol, dtype=float)
         factors = np.exp(-(energies - energies.min()) / (_R_KCAL * temperature_K))
         return factors / factors.sum()
+
+
+def max_3d_atoms() -> int:
+    """Return the heavy-atom limit of the 3D work: ``COHESION_MAX_3D_ATOMS`` or :data:`MAX_3D_ATOMS`.
+
+    A value that is not a whole number of 0 or more is ignored (the default applies).
+    """
+    text = os.environ.get(MAX_3D_ATOMS_VARIABLE, "").strip()
+    try:
+        limit = int(text)
+    except ValueError:
+        return MAX_3D_ATOMS
+    return limit if limit >= 0 else MAX_3D_ATOMS
+
+
+def too_large_for_3d(mol: Chem.Mol) -> str | None:
+    """Return why ``mol`` gets no 3D structure (a sentence starting :data:`TOO_LARGE`), or None."""
+    heavy, limit = mol.GetNumHeavyAtoms(), max_3d_atoms()
+    if heavy <= limit:
+        return None
+    return (f"{TOO_LARGE} ({heavy} heavy atoms, above the limit of {limit} for 3D work; "
+            f"{MAX_3D_ATOMS_VARIABLE} sets it)")
 
 
 def canonical_smiles(mol_or_smiles: str | Chem.Mol) -> str:
@@ -219,6 +282,19 @@ def _n_conformers(mol: Chem.Mol) -> int:
     return min(MAX_CONFORMERS, 1 + 2 * (count_torsions(mol) + rings))
 
 
+def _budget(heavy_atoms: int) -> tuple[int, int]:
+    """Return (most conformers, minimiser iterations) for a molecule of this size.
+
+    Embedding and force-field cost grow about with the square of the size, so above
+    :data:`FULL_ENSEMBLE_ATOMS` both shrink by that factor (at least one conformer and
+    :data:`_MIN_ITERS_LARGE` iterations).
+    """
+    if heavy_atoms <= FULL_ENSEMBLE_ATOMS:
+        return MAX_CONFORMERS, _MAX_ITERS
+    scale = (FULL_ENSEMBLE_ATOMS / heavy_atoms) ** 2
+    return max(1, int(MAX_CONFORMERS * scale)), max(_MIN_ITERS_LARGE, int(_MAX_ITERS * scale))
+
+
 def conformer_ensemble(smiles: str) -> ConformerEnsemble:
     """Build (or fetch from the cache) the conformer ensemble of a SMILES.
 
@@ -236,7 +312,11 @@ def conformer_ensemble(smiles: str) -> ConformerEnsemble:
         :data:`MAX_CONFORMERS` (always that many when stereo is unspecified, so that
         several stereoisomers are sampled); ``status`` explains any shortfall.
     """
-    return _ensemble(canonical_smiles(smiles))
+    key = canonical_smiles(smiles)
+    reason = too_large_for_3d(Chem.MolFromSmiles(key))
+    if reason is not None:
+        return ConformerEnsemble(key, Chem.AddHs(Chem.MolFromSmiles(key)), (), (), "none", reason)
+    return _ensemble(key)
 
 
 def clear_cache() -> None:
@@ -249,10 +329,21 @@ def _ensemble(key: str) -> ConformerEnsemble:
     mol = Chem.AddHs(Chem.MolFromSmiles(key))
     blocker = rdBase.BlockLogs()  # typing warnings become the status string instead
     try:
-        conformer_ids = _embed(mol, _n_conformers(mol))
+        wanted = _n_conformers(mol)
+        most, iterations = _budget(mol.GetNumHeavyAtoms())
+        conformer_ids = _embed(mol, min(wanted, most))
         if not conformer_ids:
             return ConformerEnsemble(key, mol, (), (), "none", "3D embedding failed")
-        energies, forcefield, status = _optimise(mol)
+        energies, forcefield, status = _optimise(mol, iterations)
+        if most < wanted or iterations < _MAX_ITERS:
+            status = _join(status, f"reduced ensemble for a large molecule ({len(conformer_ids)} "
+                                   f"conformer{'s' if len(conformer_ids) != 1 else ''}, at most "
+                                   f"{iterations} minimiser steps each)")
+    except (RuntimeError, ValueError) as error:  # RDKit refuses some inputs (dummy atoms "*") outright
+        first = str(error).strip().splitlines()
+        detail = f" ({first[0].strip()})" if first and first[0].strip() else ""
+        return ConformerEnsemble(key, Chem.AddHs(Chem.MolFromSmiles(key)), (), (), "none",
+                                 f"3D embedding failed{detail}")
     finally:
         del blocker
     return ConformerEnsemble(key, mol, conformer_ids, energies, forcefield, status)
@@ -263,26 +354,30 @@ def _embed(mol: Chem.Mol, n_conformers: int) -> tuple[int, ...]:
     params.randomSeed = EMBED_SEED
     params.numThreads = 1
     params.maxIterations = _MAX_EMBED_ATTEMPTS
-    ids = list(AllChem.EmbedMultipleConfs(mol, n_conformers, params))
+    params.timeout = EMBED_TIMEOUT_S
+    ids = [i for i in AllChem.EmbedMultipleConfs(mol, n_conformers, params) if i >= 0]
     if not ids:
         params.useRandomCoords = True
-        ids = list(AllChem.EmbedMultipleConfs(mol, n_conformers, params))
+        ids = [i for i in AllChem.EmbedMultipleConfs(mol, n_conformers, params) if i >= 0]
+    if len(ids) != mol.GetNumConformers():  # the time limit struck part-way: keep nothing half-made
+        mol.RemoveAllConformers()
+        return ()
     return tuple(ids)
 
 
-def _optimise(mol: Chem.Mol) -> tuple[tuple[float, ...], str, str]:
+def _optimise(mol: Chem.Mol, max_iters: int = _MAX_ITERS) -> tuple[tuple[float, ...], str, str]:
     n = mol.GetNumConformers()
     if mol.GetNumAtoms() == 1:
         return (0.0,) * n, "none", "ok"
     if rdForceFieldHelpers.MMFFHasAllMoleculeParams(mol):
         results = rdForceFieldHelpers.MMFFOptimizeMoleculeConfs(
-            mol, numThreads=1, maxIters=_MAX_ITERS
+            mol, numThreads=1, maxIters=max_iters
         )
         forcefield = "MMFF94"
         status = "ok"
     elif rdForceFieldHelpers.UFFHasAllMoleculeParams(mol):
         results = rdForceFieldHelpers.UFFOptimizeMoleculeConfs(
-            mol, numThreads=1, maxIters=_MAX_ITERS
+            mol, numThreads=1, maxIters=max_iters
         )
         forcefield = "UFF"
         status = "MMFF94 cannot type every atom; geometry optimised with UFF"

@@ -12,16 +12,19 @@ import io
 import json
 
 from builder import __version__
+from builder.core.quantities import DERIVED_QUANTITIES, DerivedQuantity
+from builder.core.units import to_display
 from builder.derive.entry import Derived
 from builder.derive.serialize import entry_json
+from builder.publish.textsafe import csv_text_cell, short_path, visible_data
 
 FORMAT = "cohesion-catalog"
 FORMAT_VERSION = 1
 
 
 def safe_json(data, indent: int | None = None) -> str:
-    """JSON that is safe inside HTML and script files (no raw <, > or &)."""
-    text = json.dumps(data, ensure_ascii=True, sort_keys=True, indent=indent)
+    """JSON that is safe inside HTML and script files (no raw <, > or &; bidi controls made visible)."""
+    text = json.dumps(visible_data(data), ensure_ascii=True, sort_keys=True, indent=indent)
     return text.replace("<", "\\u003c").replace(">", "\\u003e").replace("&", "\\u0026")
 
 
@@ -38,59 +41,66 @@ def entry_file_json(d: Derived, links) -> str:
 
 
 #: CSV columns: (header with its fixed unit, function of a Derived)
-def _value(name, scale=1.0, offset=0.0, digits=2):
+def _value(q: DerivedQuantity):
     def get(d: Derived):
-        v = d.get(name)
-        return "" if v is None else f"{v.value * scale + offset:.{digits}f}"
+        v = d.get(q.key)
+        return "" if v is None else f"{to_display(v.value, v.unit, q.csv.unit):.{q.csv.digits}f}"
+    get.numeric = True  # a number column: never given the text-cell apostrophe
     return get
 
 
-def _kind(name):
+def _kind(q: DerivedQuantity):
     def get(d: Derived):
-        v = d.get(name)
+        v = d.get(q.key)
         return "" if v is None else v.kind
     return get
 
 
-def _label(name, code=True):
+def _label(q: DerivedQuantity):
     def get(d: Derived):
-        lab = d.label(name)
+        lab = d.label(q.key)
         if lab is None:
             return ""
-        return "" if (code and lab.code is None) else str(lab.code if code else lab.text)
+        if q.csv.words:
+            return lab.text
+        return "" if lab.code is None else str(lab.code)
     return get
 
 
-CSV_COLUMNS = [
-    ("id", lambda d: d.entry.id),
-    ("name", lambda d: d.entry.name),
-    ("code", lambda d: d.entry.catalog.code or ""),
-    ("cas", lambda d: d.entry.cas or ""),
-    ("formula", lambda d: d.identity.formula if d.identity else ""),
-    ("inchikey", lambda d: d.identity.inchikey if d.identity else ""),
-    ("molar_mass_g_per_mol", _value("molar_mass", digits=3)),
-    ("dominant_force", _label("dominant_force")),
-    ("boiling_point_degC", _value("boiling_point", offset=-273.15, digits=1)),
-    ("boiling_point_provenance", _kind("boiling_point")),
-    ("flash_point_degC", _value("flash_point", offset=-273.15, digits=1)),
-    ("flash_point_provenance", _kind("flash_point")),
-    ("flammable_category_ghs", _label("flammable_category")),
-    ("flammable_category_possible", lambda d: d.label("flammable_category_range").text
-     if d.label("flammable_category_range") else ""),
-    ("vapor_pressure_25degC_kPa", _value("vapor_pressure_25C", scale=1e-3, digits=4)),
-    ("vapor_pressure_25degC_provenance", _kind("vapor_pressure_25C")),
-    ("density_g_per_cm3", _value("density", scale=1e-3, digits=4)),
-    ("volatility_band_20degC", _label("volatility_band")),
-    ("locations", lambda d: " ".join(d.entry.catalog.locations)),
-]
+def _quantity_columns() -> list:
+    """The columns of every quantity with a ``csv`` column in builder/core/quantities.py, in its order."""
+    out = []
+    for q in DERIVED_QUANTITIES.values():
+        if q.csv is None:
+            continue
+        out.append((q.csv.name, _label(q) if q.is_label else _value(q)))
+        if q.csv.provenance:
+            out.append((q.csv.provenance, _kind(q)))
+    return out
+
+
+def csv_columns() -> list:
+    """Identity columns, then the registry's quantity columns, then the stores (read at each call)."""
+    return [
+        ("id", lambda d: d.entry.id),
+        ("name", lambda d: d.entry.name),
+        ("code", lambda d: d.entry.catalog.code or ""),
+        ("cas", lambda d: d.entry.cas or ""),
+        ("formula", lambda d: d.identity.formula if d.identity else ""),
+        ("inchikey", lambda d: d.identity.inchikey if d.identity else ""),
+        *_quantity_columns(),
+        ("locations", lambda d: " ".join(d.entry.catalog.locations)),
+    ]
 
 
 def catalog_csv(derived: tuple[Derived, ...]) -> str:
     buf = io.StringIO()
     writer = csv.writer(buf, lineterminator="\n")
-    writer.writerow([name for name, _ in CSV_COLUMNS])
+    columns = csv_columns()
+    writer.writerow([name for name, _ in columns])
     for d in derived:
-        writer.writerow([get(d) for _, get in CSV_COLUMNS])
+        writer.writerow([get(d) if getattr(get, "numeric", False) else csv_text_cell(get(d))
+                         for _, get in columns])
     return buf.getvalue()
 
 
@@ -102,7 +112,7 @@ def search_index_js(derived: tuple[Derived, ...]) -> str:
         items.append({"id": e.id, "name": e.name, "synonyms": list(e.synonyms), "code": e.catalog.code or "",
                       "cas": e.cas or "", "formula": d.identity.formula if d.identity else "",
                       "inchikey": d.identity.inchikey if d.identity else "",
-                      "url": f"materials/{e.id}.html"})
+                      "url": short_path(f"materials/{e.id}.html")})
     return "window.COHESION_INDEX = " + safe_json(items) + ";\n"
 
 

@@ -14,12 +14,15 @@ import jinja2
 from markupsafe import Markup
 
 from builder import __version__
-from builder.chem.handling import DISCLAIMER as NOTES_DISCLAIMER
 from builder.core.methods import METHODS
+from builder.core.quantities import DERIVED_QUANTITIES
 from builder.core.quantities import STATED_PROPERTIES as PROPERTIES
 from builder.core.units import format_value
 from builder.core.values import KINDS, Label
+from builder.derive.fire import NOTES_DISCLAIMER
 from builder.derive.forces import FORCE_WORDS
+from builder.publish.textsafe import short_path, visible
+from builder.publish.views import card_rows, table_rows
 
 TEMPLATES = Path(__file__).resolve().parents[2] / "templates"
 
@@ -31,9 +34,7 @@ CAUTION = ("For internal reference only. This catalog summarises properties of m
            "the site's safety rules take precedence.")
 
 
-#: methods page id → key of the stored boiling-point validation results
-BOILING_TABLE_METHODS = {"tb-joback-sb-trees": "joback_sb_trees", "tb-joback-stein-brown": "joback_stein_brown",
-                         "tb-joback": "joback"}
+#: stored validation results, keyed by each method's ``estimator`` (builder/data/methods.yaml)
 VALIDATION_PATH = Path(__file__).resolve().parents[1] / "data" / "boiling_validation.json"
 
 
@@ -54,52 +55,29 @@ def environment(templates: Path = TEMPLATES) -> jinja2.Environment:
         trim_blocks=True,
         lstrip_blocks=True,
         keep_trailing_newline=True,
+        finalize=visible_output,
     )
     env.filters["formula"] = formula_markup
     env.globals.update(KIND_MARKS=KIND_MARKS, KINDS=KINDS, CAUTION=CAUTION, METHODS=METHODS,
                        version=__version__, property_label=property_label, condition_text=condition_text,
                        temperature_text=temperature_text, FORCE_WORDS=FORCE_WORDS, first_sentence=first_sentence,
                        NOTES_DISCLAIMER=NOTES_DISCLAIMER,
-                       BOILING_TABLE_METHODS=BOILING_TABLE_METHODS, is_label=lambda v: isinstance(v, Label), boiling_validation=_boiling_validation())
+                       table_rows=table_rows, card_rows=card_rows,
+                       is_label=lambda v: isinstance(v, Label), boiling_validation=_boiling_validation())
     return env
 
 
-#: how derived values are named on the pages
-VALUE_LABELS = {
-    "molar_mass": "Molar mass",
-    "electron_count": "Electrons per molecule",
-    "boiling_point_estimate": "Boiling point, estimated from structure",
-    "boiling_point_residual": "Stated minus estimated boiling point",
-    "flash_point_estimate": "Flash point, estimated",
-    "vapor_pressure_20C": "Vapor pressure at 20 °C",
-    "vapor_pressure_25C": "Vapor pressure at 25 °C",
-    "enthalpy_of_vaporization": "Enthalpy of vaporization at the boiling point",
-    "saturated_vapor_concentration_20C": "Saturated vapor concentration at 20 °C",
-    "vapor_density_relative": "Vapor density (air = 1)",
-    "vapor_hazard_ratio": "Vapor hazard ratio (saturated concentration / exposure limit)",
-    "store_temperature": "Highest store temperature",
-    "process_temperature": "Process temperature",
-    "polarizability": "Polarizability",
-    "dipole_moment": "Dipole moment",
-    "hbond_donors": "Hydrogen-bond donors (H on N, O, F)",
-    "hbond_acceptors": "Hydrogen-bond acceptors (N, O, F lone pairs)",
-    "shape_npr1": "Shape: moment ratio I1/I3",
-    "shape_npr2": "Shape: moment ratio I2/I3",
-    "surface_area": "Surface area",
-    "force_excess": "Force excess over the n-alkane of equal mass",
-    "dominant_force": "Dominant force",
-    "flammable_category": "GHS flammable liquid category",
-    "flammable_category_range": "Possible categories",
-    "volatility_band": "Volatility band at 20 °C",
-    "volatility_band_process": "Volatility band at the process temperature",
-}
+#: how derived values are named on the pages (from builder/core/quantities.py)
+def value_label(name: str) -> str | None:
+    q = DERIVED_QUANTITIES.get(name)
+    return q.label if q else None
 
 
 def property_label(name: str) -> str:
     spec = PROPERTIES.get(name)
     if spec:
         return spec.label
-    return VALUE_LABELS.get(name, name.replace("_", " ").capitalize())
+    return value_label(name) or name.replace("_", " ").capitalize()
 
 
 def temperature_text(kelvin: float) -> str:
@@ -120,15 +98,26 @@ def formula_markup(formula: str) -> Markup:
     return Markup("".join(out).replace("</sub><sub>", ""))
 
 
+def visible_output(value):
+    """Jinja ``finalize``: every ``{{ ... }}`` on every page shows bidi controls as ``[U+XXXX]``."""
+    if isinstance(value, Markup):
+        shown = visible(str(value))
+        return value if shown == value else Markup(shown)
+    return visible(value) if isinstance(value, str) else value
+
+
 def relative(page: str, target: str) -> str:
-    """Link from site path ``page`` to site path ``target`` (both posix, relative to the site root)."""
+    """Link from site path ``page`` to site path ``target`` (both posix, relative to the site root).
+
+    Both go through ``short_path``, as the files do when written, so links always match.
+    """
     anchor = ""
     if "#" in target:
         target, anchor = target.split("#", 1)
         anchor = "#" + anchor
     if not target:
         return anchor
-    return posixpath.relpath(target, posixpath.dirname(page) or ".") + anchor
+    return posixpath.relpath(short_path(target), posixpath.dirname(short_path(page)) or ".") + anchor
 
 
 def value_link(value) -> str:
@@ -166,6 +155,8 @@ class Writer:
         self.written: list[str] = []
 
     def page(self, path: str, template: str, **context) -> None:
+        path = short_path(path)
+
         def url(target: str) -> str:
             return relative(path, target)
 
@@ -175,6 +166,7 @@ class Writer:
         self.text(path, text)
 
     def text(self, path: str, text: str) -> None:
+        path = short_path(path)
         target = self.out / path
         target.parent.mkdir(parents=True, exist_ok=True)
         with open(target, "w", encoding="utf-8", newline="\n") as fh:
@@ -182,6 +174,7 @@ class Writer:
         self.written.append(path)
 
     def copy(self, path: str, source: Path) -> None:
+        path = short_path(path)
         target = self.out / path
         target.parent.mkdir(parents=True, exist_ok=True)
         target.write_bytes(source.read_bytes())
