@@ -61,6 +61,7 @@ def _digest(folder: Path) -> dict[str, str]:
             for p in sorted(folder.rglob("*")) if p.is_file()}
 
 
+@pytest.mark.slow
 def test_every_value_carries_a_provenance_kind_and_a_resolving_tag(demo_site):
     out, built = demo_site
     pages = sorted(out.rglob("*.html"))
@@ -81,6 +82,7 @@ def test_every_value_carries_a_provenance_kind_and_a_resolving_tag(demo_site):
     assert total > 100
 
 
+@pytest.mark.slow
 def test_no_broken_internal_links_and_no_external_requests(demo_site):
     out, _ = demo_site
     for path in sorted(out.rglob("*.html")):
@@ -94,6 +96,7 @@ def test_no_broken_internal_links_and_no_external_requests(demo_site):
                 assert anchor in _parse(target_path).ids, (path, link)
 
 
+@pytest.mark.slow
 def test_every_entry_has_a_datasheet_with_its_caution(demo_site):
     out, built = demo_site
     for d in built.derived:
@@ -102,6 +105,7 @@ def test_every_entry_has_a_datasheet_with_its_caution(demo_site):
         assert d.entry.name.split()[0] in html
 
 
+@pytest.mark.slow
 def test_two_builds_are_byte_identical(demo_site, tmp_path):
     out, _ = demo_site
     again = tmp_path / "again"

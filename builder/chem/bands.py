@@ -39,7 +39,8 @@ References
 
 from __future__ import annotations
 
-T_ZERO_CELSIUS = 273.15
+from builder.chem.constants import T_ZERO_CELSIUS
+
 ROOM_TEMPERATURE = 293.15
 """The 20 degC room temperature of the band chart [K]."""
 
@@ -62,9 +63,9 @@ def volatility_band(boiling_point: float, process_temperature: float = ROOM_TEMP
         "high" if bp < 2*Tp + 10 degC, "low" if bp > 5*Tp + 50 degC, else
         "medium" (both boundaries belong to medium).
 
-    >>> volatility_band(273.15 + 56)  # acetone at room temperature
+    >>> volatility_band(T_ZERO_CELSIUS + 56)  # acetone at room temperature
     'medium'
-    >>> volatility_band(273.15 + 100, 273.15 + 60)  # water-like bp at 60 degC
+    >>> volatility_band(T_ZERO_CELSIUS + 100, T_ZERO_CELSIUS + 60)  # water-like bp at 60 degC
     'high'
     """
     bp = round(boiling_point - T_ZERO_CELSIUS, 6)

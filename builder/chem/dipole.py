@@ -66,6 +66,8 @@ __all__ = [
     "METHOD_GASTEIGER",
     "METHOD_MMFF",
     "MMFF_MAE_D",
+    "MMFF_STANDARD_UNCERTAINTY_D",
+    "GASTEIGER_STANDARD_UNCERTAINTY_D",
     "POLAR_THRESHOLD_D",
     "DipoleEstimate",
     "dipole_moment",
@@ -89,6 +91,17 @@ GASTEIGER_MAE_D = 0.60
 """Mean absolute error [D] with Gasteiger-Marsili charges forced on the same 530 molecules
 (MMFF94 geometries); only 90.6 % polar/non-polar agreement (esters come out near 0.4 D)."""
 
+MMFF_STANDARD_UNCERTAINTY_D = MMFF_MAE_D * math.sqrt(math.pi / 2.0)
+"""Standard uncertainty of the default route [D]: for normally distributed errors the mean
+absolute error is σ·√(2/π), so σ = MAE·√(π/2) (about 0.71 D).
+
+>>> round(MMFF_STANDARD_UNCERTAINTY_D, 2)
+0.71
+"""
+
+GASTEIGER_STANDARD_UNCERTAINTY_D = GASTEIGER_MAE_D * math.sqrt(math.pi / 2.0)
+"""Standard uncertainty with Gasteiger-Marsili charges [D], from its MAE as above (about 0.75 D)."""
+
 METHOD_MMFF = "MMFF94 charges on ETKDG/MMFF94 conformers, Boltzmann RMS at 298.15 K"
 METHOD_GASTEIGER = "Gasteiger-Marsili charges on ETKDG conformers, Boltzmann RMS at 298.15 K"
 
@@ -102,7 +115,8 @@ class DipoleEstimate:
     value_D : float or None
         Moment [D]; None when not defined (ion) or not computable.
     uncertainty_D : float or None
-        Typical error of the method [D] (its measured mean absolute error).
+        Standard uncertainty [D]: the route's measured mean absolute error converted
+        as for a normal distribution (:data:`MMFF_STANDARD_UNCERTAINTY_D`).
     method : str
         Name of the route taken (:data:`METHOD_MMFF` or :data:`METHOD_GASTEIGER`).
     status : str
@@ -197,7 +211,7 @@ def ensemble_dipole(ensemble: ConformerEnsemble, *, charges: str = "auto") -> Di
     )
     weights = ensemble.weights(TEMPERATURE_K)
     value = math.sqrt(float(weights @ moments**2))
-    uncertainty = MMFF_MAE_D if method == METHOD_MMFF else GASTEIGER_MAE_D
+    uncertainty = MMFF_STANDARD_UNCERTAINTY_D if method == METHOD_MMFF else GASTEIGER_STANDARD_UNCERTAINTY_D
     return DipoleEstimate(
         value, uncertainty, method, status,
         tuple(float(m) for m in moments), tuple(float(w) for w in weights),

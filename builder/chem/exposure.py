@@ -26,11 +26,7 @@ References
 
 from __future__ import annotations
 
-R = 8.314462618
-"""Molar gas constant [J/(mol*K)] (CODATA 2018)."""
-
-P_ATM = 101325.0
-"""Standard atmosphere [Pa]."""
+from builder.chem.constants import P_ATM, R
 
 M_AIR = 0.0289586
 """Molar mass of dry air [kg/mol] (Lemmon et al. 2000 [2])."""
@@ -104,6 +100,10 @@ def vapor_hazard_ratio(svc: float, oel: float) -> float:
     return svc / oel
 
 
+MAX_MOLAR_MASS = 5.0
+"""Largest molar mass :func:`relative_vapor_density` accepts [kg/mol] (a guard against g/mol)."""
+
+
 def relative_vapor_density(molar_mass: float) -> float:
     r"""Return the vapour density relative to air at the same T and P [-].
 
@@ -122,7 +122,7 @@ def relative_vapor_density(molar_mass: float) -> float:
     >>> round(relative_vapor_density(0.09214), 2)  # toluene
     3.18
     """
-    if not 0.0 < molar_mass <= 5.0:
+    if not 0.0 < molar_mass <= MAX_MOLAR_MASS:
         raise ValueError(
             f"molar mass {molar_mass!r} kg/mol out of range (0, 5]; was it given in g/mol?"
         )

@@ -168,12 +168,16 @@ class FlashPointEstimate:
         Route used, e.g. "Catoire-Naudet (tabulated Hvap)".
     reference : str
         Short citation of the correlation.
+    estimator : str
+        Stable key of the correlation: "catoire_naudet" or "satyanarayana_rao"
+        (the ``estimator`` of its entry in ``builder/data/methods.yaml``).
     """
 
     value: float
     u: float
     method: str
     reference: str
+    estimator: str
 
 
 def estimate_flash_point(
@@ -201,6 +205,7 @@ def estimate_flash_point(
                 U_CATOIRE_NAUDET_MEASURED_HVAP,
                 "Catoire-Naudet (tabulated Hvap)",
                 "J. Phys. Chem. Ref. Data 2004, 33, 1083",
+                "catoire_naudet",
             )
         if tau is not None and hbn is not None:
             dh = myrdal_yalkowsky_dHvap(T_298, Tb, tau, hbn)
@@ -210,10 +215,12 @@ def estimate_flash_point(
                 "Catoire-Naudet (Myrdal-Yalkowsky Hvap)",
                 "J. Phys. Chem. Ref. Data 2004, 33, 1083; "
                 "Ind. Eng. Chem. Res. 1997, 36, 2494",
+                "catoire_naudet",
             )
     return FlashPointEstimate(
         satyanarayana_rao(Tb),
         U_SATYANARAYANA_RAO,
         "Satyanarayana-Rao (Tb only)",
         "J. Hazard. Mater. 1992, 32, 81",
+        "satyanarayana_rao",
     )

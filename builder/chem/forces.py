@@ -33,6 +33,11 @@ isomer moment is reported and a reason says whether the stereo decides the polar
 For dot-separated structures the dipole and shape refer to the largest fragment (a
 note says so); an ion has no dipole value. The reasons are generated sentences.
 
+Size: above the heavy-atom limit of the 3D work (:func:`builder.chem.structure3d.max_3d_atoms`)
+no conformers are built, so the dipole moment and shape are not computed;
+``not_computed`` names them with the reason, a note and a reason say so, and
+dipole–dipole attraction is then not assessed (it is never claimed without a moment).
+
 References
 ----------
 .. [1] Haynes, W. M. (ed.) CRC Handbook of Chemistry and Physics, 95th ed.; CRC Press,
@@ -71,6 +76,7 @@ from builder.chem.shape import (
     surface_area,
 )
 from builder.chem.structure3d import (
+    TOO_LARGE,
     canonical_smiles,
     conformer_ensemble,
     conformer_stereo,
@@ -125,6 +131,8 @@ class ForceProfile:
     methods: dict[str, str] = field(default_factory=dict)
     kinds: dict[str, str] = field(default_factory=dict)
     notes: tuple[str, ...] = ()
+    #: field name → why it has no value ("not computed: too large ..."), for skipped 3D work
+    not_computed: dict[str, str] = field(default_factory=dict)
 
     def __post_init__(self) -> None:
         if self.present[:1] != ("dispersion",) or self.dominant != self.present[-1]:
@@ -225,10 +233,16 @@ def force_profile(mol_or_smiles: str | Chem.Mol, boiling_point_K: float | None =
         present.append("ionic")
     reasons = _reasons(mol, ionic, dipole, stereo_reason, donors, acceptors, alpha,
                        n_electrons, shape, excess)
+    not_computed = {}
+    if dipole.value_D is None and dipole.status.startswith(TOO_LARGE):
+        not_computed["dipole_D"] = dipole.status
+    if npr1 is None and ensemble.status.startswith(TOO_LARGE):
+        not_computed.update(npr1=ensemble.status, npr2=ensemble.status)
     notes = tuple(n for n in (
-        f"dipole: {dipole.status}" if dipole.status != "ok" else "",
+        f"dipole: {dipole.status}" if dipole.status not in ("ok", ensemble.status) else "",
         f"polarizability: {alpha_note}" if alpha_note != "ok" else "",
-        f"3D structure: {ensemble.status}" if ensemble.status != "ok" else "",
+        (f"3D structure (dipole moment, shape): {ensemble.status}" if ensemble.status.startswith(TOO_LARGE)
+         else f"3D structure: {ensemble.status}") if ensemble.status != "ok" else "",
         "shape and dipole computed on the largest fragment" if len(Chem.GetMolFrags(mol)) > 1 else "",
         f"force excess: {excess_note}" if excess_note else "",
     ) if n)
@@ -240,6 +254,7 @@ def force_profile(mol_or_smiles: str | Chem.Mol, boiling_point_K: float | None =
         surface_area_A2=surface_area(Chem.AddHs(mol)), molar_mass_g_mol=molar_mass,
         boiling_point_K=boiling_point_K, force_excess_K=excess,
         methods=dict(_METHODS, dipole_D=dipole.method), kinds=dict(_KINDS), notes=notes,
+        not_computed=not_computed,
     )
 
 
@@ -292,6 +307,9 @@ def _reasons(mol: Chem.Mol, ionic: str | None, dipole: DipoleEstimate,
             reasons.append("A single atom has no permanent dipole moment.")
         else:
             reasons.append(f"It has no polar bonds (net moment about {moment}).")
+    elif dipole.status.startswith(TOO_LARGE):
+        reasons.append("Its dipole moment was not computed (the molecule is too large for the 3D step), "
+                       "so whether dipole–dipole attraction acts is not assessed.")
     if stereo_reason:
         reasons.append(stereo_reason)
     groups = donor_groups(mol)

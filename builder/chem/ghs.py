@@ -41,7 +41,7 @@ from __future__ import annotations
 from collections.abc import Collection, Iterable
 from dataclasses import dataclass
 
-T_ZERO_CELSIUS = 273.15
+from builder.chem.constants import T_ZERO_CELSIUS
 
 FP_CAT2_MAX_C = 23.0  # FP < 23 degC: category 1 or 2
 IBP_CAT1_MAX_C = 35.0  # IBP <= 35 degC: category 1
@@ -92,7 +92,7 @@ def flammable_liquid_category(
         Initial boiling point [K] (the normal boiling point for a pure
         substance). Only needed when FP < 23 degC; ValueError if missing then.
 
-    >>> flammable_liquid_category(273.15 + 13, 273.15 + 78)  # ethanol
+    >>> flammable_liquid_category(T_ZERO_CELSIUS + 13, T_ZERO_CELSIUS + 78)  # ethanol
     2
     """
     ibp = None if initial_boiling_point is None else _celsius(initial_boiling_point)
@@ -158,7 +158,7 @@ def possible_categories(
     k : float
         Coverage factor (default 1.645, a two-sided 90 % normal interval).
 
-    >>> sorted(possible_categories(273.15 + 20, 5.0, 273.15 + 80, 3.0).categories)
+    >>> sorted(possible_categories(T_ZERO_CELSIUS + 20, 5.0, T_ZERO_CELSIUS + 80, 3.0).categories)
     [2, 3]
     """
     if u_flash_point < 0 or u_boiling_point < 0 or k < 0:

@@ -7,7 +7,7 @@ Contents
   (or another file); every problem is reported at once in a
   :class:`RulesError`.
 - :func:`evaluate_rules`: facts -> list of :class:`Note`, in a stable order.
-- :data:`SEVERITIES`, :data:`DISCLAIMER`.
+- :data:`SEVERITIES`.
 
 Rule file format
 ----------------
@@ -54,12 +54,9 @@ from typing import Any
 
 import yaml
 
-RULES_PATH = Path(__file__).resolve().parents[1] / "data" / "handling_rules.yaml"
+from builder.chem.constants import T_ZERO_CELSIUS
 
-DISCLAIMER = (
-    "These notes are generated from the values above by the catalog's rules. They summarise; they do not "
-    "replace the supplier's safety data sheet, a risk assessment, local regulations or the site's rules."
-)
+RULES_PATH = Path(__file__).resolve().parents[1] / "data" / "handling_rules.yaml"
 
 SEVERITIES = ("high", "medium", "info")
 """Display priorities, most urgent first."""
@@ -317,24 +314,26 @@ def _truth(cond: dict, facts: dict[str, Any]) -> bool | None:
     return _CMP[op](left, right)
 
 
-def _format_value(value: Any, filt: str) -> str:
+def _format_value(value: Any, filt: str, formats: dict | None = None) -> str:
     if value is None:
         return "unknown"
+    if formats and filt in formats:
+        return formats[filt](value)
     if filt == "degC":
-        return f"{value - 273.15:.0f}"
+        return f"{value - T_ZERO_CELSIUS:.0f}"
     if isinstance(value, float):
         rounded = float(f"{value:.3g}")
         return f"{rounded:,.0f}" if abs(rounded) >= 1000 else f"{value:.3g}"
     return str(value)
 
 
-def _render(text: str, facts: dict[str, Any]) -> str:
+def _render(text: str, facts: dict[str, Any], formats: dict | None = None) -> str:
     out = []
     for literal, field, _, _ in string.Formatter().parse(text):
         out.append(literal)
         if field is not None:
             name, _, filt = field.partition("|")
-            out.append(_format_value(facts.get(name), filt))
+            out.append(_format_value(facts.get(name), filt, formats))
     return " ".join("".join(out).split())
 
 
@@ -350,19 +349,22 @@ def check_facts(facts: dict[str, Any]) -> None:
         raise ValueError("; ".join(problems))
 
 
-def evaluate_rules(facts: dict[str, Any], rules: tuple[Rule, ...] | None = None) -> list[Note]:
+def evaluate_rules(facts: dict[str, Any], rules: tuple[Rule, ...] | None = None,
+                   formats: dict | None = None) -> list[Note]:
     """Return the notes whose conditions are true for ``facts``.
 
     Order: by severity (high, medium, info), then by position in the rules
     file. Missing or None facts are unknown and never make a rule fire (see
     the module docstring). ``rules`` defaults to the packaged rules file.
+    ``formats`` maps a text filter (``{flash_point|degC}``) to the function that
+    writes the value; the caller's formatting wins over the plain default here.
     """
     check_facts(facts)
     if rules is None:
         rules = _default_rules()
     fired = [r for r in rules if _truth(r.when, facts) is True]
     fired.sort(key=lambda r: SEVERITIES.index(r.severity))
-    return [Note(r.id, _render(r.text, facts), r.severity, r.source) for r in fired]
+    return [Note(r.id, _render(r.text, facts, formats), r.severity, r.source) for r in fired]
 
 
 _DEFAULT: tuple[Rule, ...] | None = None

@@ -26,7 +26,7 @@ References
    and Liquids, 5th ed.; McGraw-Hill, 2001 (Antoine form and coefficients).
 2. Myrdal, P. B.; Yalkowsky, S. H. Estimating Pure Component Vapor Pressures
    of Complex Organic Molecules. Ind. Eng. Chem. Res. 1997, 36, 2494-2499.
-   https://doi.org/10.1021/ie9502421
+   https://doi.org/10.1021/ie950242l
 """
 
 from __future__ import annotations
@@ -36,14 +36,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-R = 8.314462618
-"""Molar gas constant [J/(mol*K)] (CODATA 2018)."""
-
-P_ATM = 101325.0
-"""Standard atmosphere [Pa]."""
-
-T_ZERO_CELSIUS = 273.15
-"""0 degC in kelvin."""
+from builder.chem.constants import P_ATM, R, T_ZERO_CELSIUS  # noqa: F401 (R: re-exported)
 
 PRESSURE_UNITS: dict[str, float] = {
     "Pa": 1.0,
@@ -135,7 +128,7 @@ class Antoine:
 
         ``Tmin`` and ``Tmax`` are in ``t_unit`` like C. Conversions: ln to
         log10 divides A and B by ln 10; a pressure unit u adds log10(u/Pa) to
-        A; degC to K subtracts 273.15 from C.
+        A; degC to K subtracts T_ZERO_CELSIUS from C.
 
         >>> a = Antoine.from_published(6.95464, 1344.8, 219.482, base="log10",
         ...     p_unit="mmHg", t_unit="degC", Tmin=6, Tmax=137)

@@ -9,6 +9,8 @@ Contents
 DIMENSIONS      named dimensions an entry field may ask for, with their SI unit
 parse_quantity  "78.4 °C" / "0.789 g/cm3" / "12 ± 2 mmHg" → (si_value, si_uncertainty)
 to_unit         an SI float expressed in another unit (for display and exports)
+celsius, kelvin the one °C ↔ K conversion above builder/chem (ZERO_CELSIUS_K)
+celsius_text    a temperature as "78.4 °C" (pages, notes, the change report, profile)
 format_value    the text shown on a page for a value in its display units
 """
 from __future__ import annotations
@@ -87,6 +89,20 @@ def _number(text: str) -> float:
     return float(text.replace("\u2212", "-"))
 
 
+#: longest quantity text read (a longer one is a paste accident, and keeps the pattern linear)
+MAX_QUANTITY_CHARS = 1000
+
+
+def _shown(value: object) -> str:
+    """``repr`` of a value for a message, cut to a readable length."""
+    text = repr(value)
+    return text if len(text) <= 42 else text[:40] + "…" + text[-1]
+
+
+def _kind(value: object) -> str:
+    return {dict: "a mapping", list: "a list", type(None): "nothing"}.get(type(value), type(value).__name__)
+
+
 def parse_quantity(text: object, dimension: str) -> tuple[float, float | None]:
     """Read ``"<number> [± <number>] <unit>"`` and return SI (value, uncertainty).
 
@@ -97,42 +113,67 @@ def parse_quantity(text: object, dimension: str) -> tuple[float, float | None]:
     if isinstance(text, bool):
         raise UnitProblem(f"expected a {dim.name} such as '{dim.example}', got {text!r}")
     if isinstance(text, (int, float)):
+        try:
+            number = float(text)
+        except OverflowError:
+            number = math.inf
+        if not math.isfinite(number):
+            raise UnitProblem(f"{_shown(text)} is not a finite number", hint="write a measured value")
         if dim.si_unit == "dimensionless":
-            return float(text), None
+            return number, None
         raise UnitProblem(
-            f"{text!r} has no unit",
+            f"{_shown(text)} has no unit",
             hint=f"write the unit, e.g. '{dim.example}'",
         )
     if not isinstance(text, str):
-        raise UnitProblem(f"expected a {dim.name} such as '{dim.example}', got {type(text).__name__}")
+        raise UnitProblem(f"expected a {dim.name} such as '{dim.example}', got {_kind(text)}")
+    if len(text) > MAX_QUANTITY_CHARS:
+        raise UnitProblem(f"quantity text of {len(text)} characters is too long",
+                          hint=f"expected a {dim.name}, e.g. '{dim.example}'")
     match = _QUANTITY.match(text)
     if not match:
         raise UnitProblem(
-            f"cannot read {text!r} as a number with a unit",
+            f"cannot read {_shown(text)} as a number with a unit",
             hint=f"expected a {dim.name}, e.g. '{dim.example}'",
         )
     unit_text = match["unit"] or "dimensionless"
+    if any(sign in unit_text for sign in ("±", "+/-", "+-")):
+        raise UnitProblem(f"cannot read the uncertainty in {_shown(text)}",
+                          hint="write '<number> ± <number> <unit>', e.g. '78.4 ± 0.2 °C'")
     try:
         unit = UREG.Unit(unit_text) if unit_text != "dimensionless" else UREG.dimensionless
-    except (pint.errors.UndefinedUnitError, pint.errors.DefinitionSyntaxError, AttributeError,
-            TypeError, ValueError, AssertionError, SyntaxError) as exc:
-        raise UnitProblem(f"unknown unit {unit_text!r}", hint=f"expected a {dim.name}, e.g. '{dim.example}'") from exc
-    if UREG.Quantity(1.0, unit).dimensionality != dim.dimensionality:
+        dimensionality = UREG.Quantity(1.0, unit).dimensionality
+    except Exception as exc:  # pint raises many kinds (syntax, arithmetic, offset units) for odd unit text
+        raise UnitProblem(f"unknown unit {_shown(unit_text)}",
+                          hint=f"expected a {dim.name}, e.g. '{dim.example}'") from exc
+    if dimensionality != dim.dimensionality:
         raise UnitProblem(
-            f"{unit_text!r} is not a unit of {dim.name}",
+            f"{_shown(unit_text)} is not a unit of {dim.name}",
             hint=f"expected a {dim.name}, e.g. '{dim.example}'",
         )
-    value = UREG.Quantity(_number(match["num"]), unit).to(dim.si_unit).magnitude
+    if dimension == "temperature" and "delta_" in str(unit):
+        raise UnitProblem(f"{_shown(unit_text)} is a temperature difference, not a temperature",
+                          hint="write a temperature such as '78.4 °C' or '351.6 K'")
+    try:
+        value = UREG.Quantity(_number(match["num"]), unit).to(dim.si_unit).magnitude
+    except Exception as exc:  # e.g. an offset unit inside a product ("°C·m/m")
+        raise UnitProblem(f"cannot convert {_shown(text)} to {dim.si_unit}",
+                          hint=f"expected a {dim.name}, e.g. '{dim.example}'") from exc
+    if not math.isfinite(value):
+        raise UnitProblem(f"{_shown(text)} is not a finite number")
     unc = None
     if match["unc"] is not None:
+        if match["unc"][0] in "-\u2212":
+            raise UnitProblem(f"the uncertainty in {_shown(text)} is negative",
+                              hint="write it without a sign, e.g. '78.4 ± 0.2 °C'")
         # An uncertainty is a difference: convert it without the offset of °C or °F.
         delta = UREG.Quantity(_number(match["unc"]), unit)
         if dimension == "temperature":
             unc = abs(_number(match["unc"])) * UREG.Quantity(1.0, _delta_unit(unit)).to("K").magnitude
         else:
             unc = abs(delta.to(dim.si_unit).magnitude)
-    if not math.isfinite(value):
-        raise UnitProblem(f"{text!r} is not a finite number")
+        if not math.isfinite(unc):
+            raise UnitProblem(f"the uncertainty in {_shown(text)} is not a finite number")
     return float(value), unc
 
 
@@ -144,6 +185,41 @@ def _delta_unit(unit) -> str:
 def to_unit(si_value: float, si_unit: str, unit: str) -> float:
     """Express an SI float in ``unit`` (offset units handled)."""
     return float(UREG.Quantity(si_value, si_unit).to(unit).magnitude)
+
+
+#: 0 °C in kelvin (exact).  builder/chem keeps its own copy in chem/constants.py (it imports
+#: nothing of the builder); everything above chem converts through the two functions below.
+ZERO_CELSIUS_K = 273.15
+
+
+def celsius(kelvin_value: float) -> float:
+    """A temperature in K as °C."""
+    return kelvin_value - ZERO_CELSIUS_K
+
+
+def kelvin(celsius_value: float) -> float:
+    """A temperature in °C as K."""
+    return celsius_value + ZERO_CELSIUS_K
+
+
+def celsius_text(kelvin_value: float, decimals: int = 1, unit: bool = True) -> str:
+    """'78.4 °C' for 351.55 K, with a true minus sign; ``unit=False`` leaves off ' °C'."""
+    text = fixed(celsius(kelvin_value), decimals)
+    return f"{text} °C" if unit else text
+
+
+#: exact factors for the fixed display units of the exports (the same arithmetic every time)
+_DISPLAY_SCALE = {("Pa", "kPa"): 1e-3, ("kg/m**3", "g/cm3"): 1e-3, ("g/mol", "g/mol"): 1.0}
+
+
+def to_display(si_value: float, si_unit: str, unit: str) -> float:
+    """An SI float in a display unit of the exports: ``degC`` for K, ``kPa``, ``g/cm3`` ..."""
+    if si_unit == "K" and unit == "degC":
+        return celsius(si_value)
+    scale = _DISPLAY_SCALE.get((si_unit, unit))
+    if scale is not None:
+        return si_value * scale
+    return to_unit(si_value, si_unit, unit)
 
 
 def _round(x: float, digits: int) -> str:
@@ -169,7 +245,7 @@ def format_value(si_value: float, si_unit: str, uncertainty: float | None = None
     """Text a person reads: temperatures in °C with K beside, pressures in kPa."""
     if si_unit == "K":
         unc = f" ± {uncertainty:.0f}" if uncertainty else ""
-        return f"{fixed(si_value - 273.15, 1)}{unc} °C ({si_value:.1f} K)"
+        return f"{celsius_text(si_value, 1, unit=False)}{unc} °C ({si_value:.1f} K)"
     if si_unit == "Pa":
         kpa = si_value / 1000.0
         unc = f" ± {_round(uncertainty / 1000.0, 2)}" if uncertainty else ""

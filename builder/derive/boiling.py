@@ -11,11 +11,10 @@ from rdkit import Chem
 from builder.chem.boiling import estimate_boiling_point
 from builder.core.diagnostics import Diagnostic
 from builder.core.model import Entry
+from builder.core.methods import method_for_estimator
+from builder.core.units import celsius_text
 from builder.core.values import Provenance, Value, estimated
 
-#: method ids of builder/methods.py for each estimator of builder/chem/boiling.py
-METHOD_IDS = {"joback_sb_trees": "tb-joback-sb-trees", "joback_stein_brown": "tb-joback-stein-brown",
-              "joback": "tb-joback"}
 SIGMA_LIMIT = 3.0
 
 
@@ -30,8 +29,8 @@ def boiling_values(entry: Entry, mol: Chem.Mol | None) -> tuple[dict[str, Value]
             note = None
             if result.interval90_K:
                 lo, hi = result.interval90_K
-                note = f"90 % interval {lo - 273.15:.0f} to {hi - 273.15:.0f} °C"
-            estimate = estimated(result.value_K, "K", METHOD_IDS[result.method], result.uncertainty_K, note)
+                note = f"90 % interval {celsius_text(lo, 0, unit=False)} to {celsius_text(hi, 0)}"
+            estimate = estimated(result.value_K, "K", method_for_estimator(result.method), result.uncertainty_K, note)
             values["boiling_point_estimate"] = estimate
     if stated is not None:
         values["boiling_point"] = stated
@@ -43,8 +42,8 @@ def boiling_values(entry: Entry, mol: Chem.Mol | None) -> tuple[dict[str, Value]
                 line, col = entry.line_of("properties.boiling_point.value")
                 findings.append(Diagnostic(
                     entry.path, line, col, "warning",
-                    f"boiling point {stated.value - 273.15:.1f} °C is {abs(residual):.0f} K from the structure "
-                    f"estimate {estimate.value - 273.15:.0f} ± {estimate.uncertainty:.0f} °C "
+                    f"boiling point {celsius_text(stated.value, 1)} is {abs(residual):.0f} K from the structure "
+                    f"estimate {celsius_text(estimate.value, 0, unit=False)} ± {estimate.uncertainty:.0f} °C "
                     f"(more than {SIGMA_LIMIT:.0f}σ)", "check the unit or the structure"))
     elif estimate is not None:
         values["boiling_point"] = estimate

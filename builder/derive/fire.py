@@ -17,11 +17,21 @@ from builder.chem import bands, exposure, flash, ghs, handling, vapor
 from builder.chem.flexibility import VaporStructure, vapor_structure
 from builder.core.diagnostics import Diagnostic
 from builder.core.model import Antoine as StatedAntoine
+from builder.core.methods import method_for_estimator
 from builder.core.model import Entry
-from builder.core.units import to_unit
+from builder.core.units import ZERO_CELSIUS_K, celsius_text, to_unit
 from builder.core.values import Label, Provenance, Value, estimated
 
 T20, T25 = 293.15, 298.15
+
+#: shown under every list of handling notes (datasheet, ``cohesion profile``)
+NOTES_DISCLAIMER = (
+    "These notes are generated from the values above by the catalog's rules. They summarise; they do not "
+    "replace the supplier's safety data sheet, a risk assessment, local regulations or the site's rules."
+)
+
+#: how the handling rules' text filters write values: temperatures like every other page
+NOTE_FORMATS = {"degC": lambda kelvin_value: celsius_text(kelvin_value, 0, unit=False)}
 
 
 @dataclass(frozen=True)
@@ -47,7 +57,7 @@ def antoine_of(stated: StatedAntoine) -> vapor.Antoine:
     factor = to_unit(1.0, stated.pressure_unit, "Pa")
     A = stated.A + (math.log(factor) if stated.form == "ln" else math.log10(factor))
     t_unit = "K" if stated.temperature_unit == "K" else "degC"
-    offset = 0.0 if t_unit == "K" else 273.15
+    offset = 0.0 if t_unit == "K" else ZERO_CELSIUS_K
     return vapor.Antoine.from_published(A, stated.B, stated.C, base=stated.form, p_unit="Pa", t_unit=t_unit,
                                         Tmin=stated.t_min - offset, Tmax=stated.t_max - offset)
 
@@ -122,7 +132,7 @@ def _flash_point(entry: Entry, mol: Chem.Mol | None, tb: Value | None,
             slope = (flash.estimate_flash_point(tb.value + 0.5, **args).value
                      - flash.estimate_flash_point(tb.value - 0.5, **args).value)
             u = math.hypot(u, slope * tb.uncertainty)
-        method = "catoire-naudet" if est.method.startswith("Catoire") else "satyanarayana-rao"
+        method = method_for_estimator(est.estimator)
         estimate = estimated(est.value, "K", method, u, f"from the {tb.kind} boiling point")
     return stated or estimate, estimate
 
@@ -171,12 +181,22 @@ def _band(tb: Value, T: float, note: str) -> Label:
     return Label(f"{band} volatility", Provenance("rule", method="coshh-volatility-band", note=basis), band)
 
 
+def _vapor_structure(mol: Chem.Mol | None) -> VaporStructure | None:
+    """The structure terms of the vapor-pressure methods, or None outside their range (no liquid)."""
+    if mol is None:
+        return None
+    try:
+        return vapor_structure(mol)
+    except ValueError:  # e.g. a molar mass far beyond any liquid's: the methods do not apply
+        return None
+
+
 def fire_values(entry: Entry, mol: Chem.Mol | None, values: dict[str, Value], dominant_force: str | None,
                 store_temperature: Value, process_temperature: Value | None = None) -> FireResult:
     """Everything about evaporation and fire that follows from the values derived so far."""
     result = FireResult()
     tb = values.get("boiling_point")
-    vs = vapor_structure(mol) if mol is not None else None
+    vs = _vapor_structure(mol)
     antoine = antoine_of(entry.antoine) if entry.antoine else None
     for T, key in ((T20, "vapor_pressure_20C"), (T25, "vapor_pressure_25C")):
         v = _pressure_at(T, antoine, tb, vs, entry.antoine.source if entry.antoine else "")
@@ -200,7 +220,7 @@ def fire_values(entry: Entry, mol: Chem.Mol | None, values: dict[str, Value], do
             result.values["vapor_hazard_ratio"] = Value(
                 exposure.vapor_hazard_ratio(svc, oel.value), "dimensionless",
                 Provenance("rule", method="vapor-hazard-ratio", note=f"exposure limit from {oel.provenance.source}"))
-    if mm is not None:
+    if mm is not None and 0.0 < mm.value / 1000.0 <= exposure.MAX_MOLAR_MASS:  # outside: not a vapor
         result.values["vapor_density_relative"] = Value(
             exposure.relative_vapor_density(mm.value / 1000.0), "dimensionless",
             Provenance("assumed", method="vapor-density-ideal-gas"))
@@ -214,8 +234,9 @@ def fire_values(entry: Entry, mol: Chem.Mol | None, values: dict[str, Value], do
         result.labels["volatility_band"] = _band(tb, bands.ROOM_TEMPERATURE, "at 20 °C")
         if process_temperature is not None:
             result.labels["volatility_band_process"] = _band(
-                tb, process_temperature.value, f"at the process temperature {process_temperature.value - 273.15:.0f} °C")
-    result.notes = handling.evaluate_rules(_facts(entry, mol, values, result, dominant_force, store_temperature))
+                tb, process_temperature.value, f"at the process temperature {celsius_text(process_temperature.value, 0)}")
+    result.notes = handling.evaluate_rules(_facts(entry, mol, values, result, dominant_force, store_temperature),
+                                           formats=NOTE_FORMATS)
     return result
 
 

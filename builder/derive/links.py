@@ -19,6 +19,7 @@ from functools import lru_cache
 from rdkit import Chem
 
 from builder.chem.identity import formula_counts
+from builder.core.units import celsius_text
 from builder.derive.entry import Derived
 
 CONTRAST_MASS_RATIO = 0.10
@@ -83,7 +84,7 @@ def _force(d: Derived) -> str | None:
 
 
 def _celsius(kelvin: float) -> str:
-    return f"{kelvin - 273.15:.0f} °C".replace("-", "\u2212")
+    return celsius_text(kelvin, 0)
 
 
 def cross_links(derived: tuple[Derived, ...]) -> dict[str, tuple[Link, ...]]:

@@ -5,12 +5,13 @@ conditions, and provenance (kind plus source or method).
 """
 from __future__ import annotations
 
+from builder.core.quantities import DERIVED_QUANTITIES
 from builder.derive.entry import Derived
 
-#: derived values reported at the top level of a profile, in this order
-PROFILE_VALUES = ("molar_mass", "electron_count", "boiling_point", "boiling_point_estimate", "flash_point",
-                  "flash_point_estimate", "vapor_pressure_20C", "vapor_pressure_25C", "enthalpy_of_vaporization",
-                  "saturated_vapor_concentration_20C", "vapor_density_relative", "vapor_hazard_ratio")
+def profile_values() -> tuple[str, ...]:
+    """Derived values reported at the top level of a profile: the quantities marked ``profile`` in
+    builder/core/quantities.py, in its order."""
+    return tuple(q.key for q in DERIVED_QUANTITIES.values() if q.profile and not q.is_label)
 
 
 def identity_json(d: Derived) -> dict:
@@ -23,7 +24,7 @@ def identity_json(d: Derived) -> dict:
 def profile_json(d: Derived) -> dict:
     """The profile object: identity, forces, key values, category, band and handling notes."""
     out = identity_json(d)
-    for name in PROFILE_VALUES:
+    for name in profile_values():
         if d.get(name) is not None:
             out[name] = d.get(name).as_dict()
     if d.forces is not None:

@@ -11,6 +11,7 @@ Rules (our own wording; the criteria are the GHS category and flash/boiling poin
 from __future__ import annotations
 
 from builder.core.model import Catalog
+from builder.core.units import celsius_text
 from builder.derive.entry import Derived
 
 BOILING_MARGIN_K = 5.0
@@ -22,9 +23,9 @@ def conflicts(d: Derived, rated_K: float | None) -> list[str]:
     out = []
     fp, bp = d.get("flash_point"), d.get("boiling_point")
     if fp is not None and rated_K >= fp.value:
-        out.append(f"store reaches the flash point ({fp.value - 273.15:.0f} °C{', estimated' if fp.kind == 'estimated' else ''})")
+        out.append(f"store reaches the flash point ({celsius_text(fp.value, 0)}{', estimated' if fp.kind == 'estimated' else ''})")
     if bp is not None and rated_K >= bp.value - BOILING_MARGIN_K:
-        out.append(f"store within {BOILING_MARGIN_K:.0f} K of the boiling point ({bp.value - 273.15:.0f} °C): pressure build-up")
+        out.append(f"store within {BOILING_MARGIN_K:.0f} K of the boiling point ({celsius_text(bp.value, 0)}): pressure build-up")
     return out
 
 

@@ -22,29 +22,30 @@ from pathlib import Path
 
 from builder.core.diagnostics import Diagnostic
 from builder.core.model import Catalog, frozen_map
+from builder.core.quantities import DERIVED_QUANTITIES
+from builder.core.units import celsius_text
 from builder.derive.entry import Derived
 from builder.derive.links import cross_links
 from builder.load.entries import entry_files, read_bibliography, read_entries
 
 MAIN_BRANCHES = ("main", "master")
 
-#: compared fields in report order: key → label.  ``stated:*`` rows come from the entry file.
-FIELDS = {
+_IDENTITY_FIELDS = {
     "name": "name", "cas": "CAS RN", "smiles": "SMILES (as entered)", "formula": "formula",
     "inchikey": "InChIKey", "hazard_statements": "hazard statements", "locations": "locations",
-    "dominant_force": "dominant force",
-    "boiling_point": "boiling point (chosen)", "boiling_point_estimate": "boiling point estimate",
-    "flash_point": "flash point", "flash_point_estimate": "flash point estimate",
-    "flammable_category": "flammable-liquid category", "flammable_category_range": "possible categories",
-    "volatility_band": "volatility band", "volatility_band_process": "volatility band (process)",
-    "vapor_pressure_20C": "vapor pressure at 20 °C", "vapor_pressure_25C": "vapor pressure at 25 °C",
-    "store_temperature": "store temperature",
-    "handling_notes": "handling notes", "links": "cross-links",
 }
-_DERIVED_VALUES = ("boiling_point", "boiling_point_estimate", "flash_point", "flash_point_estimate",
-                   "vapor_pressure_20C", "vapor_pressure_25C", "store_temperature")
-_LABELS = ("dominant_force", "flammable_category", "flammable_category_range", "volatility_band",
-           "volatility_band_process")
+
+
+def compared() -> list:
+    """The derived quantities the report compares: those with a ``review`` label in
+    builder/core/quantities.py, in its order (read at each call)."""
+    return [q for q in DERIVED_QUANTITIES.values() if q.review]
+
+
+def fields() -> dict[str, str]:
+    """Compared fields in report order: key → label.  ``stated:*`` rows come from the entry file."""
+    return {**_IDENTITY_FIELDS, **{q.key: q.review for q in compared()},
+            "handling_notes": "handling notes", "links": "cross-links"}
 
 
 class GitProblem(Exception):
@@ -101,21 +102,19 @@ def snapshot(d: Derived, links=()) -> dict[str, str]:
            "formula": d.identity.formula if d.identity else "", "inchikey": d.identity.inchikey if d.identity else "",
            "hazard_statements": ", ".join(e.hazard_statements), "locations": ", ".join(e.catalog.locations)}
     for name, value in e.properties.items():
-        cond = ", ".join(f"{k} {v - 273.15:.1f} °C" if k == "at" else f"{k} {v / 1000:g} kPa"
+        cond = ", ".join(f"{k} {celsius_text(v, 1)}" if k == "at" else f"{k} {v / 1000:g} kPa"
                          for k, v in value.conditions)
         out[f"stated:{name}"] = f"{value.text()} [{value.provenance.source}]" + (f" ({cond})" if cond else "")
     if e.antoine is not None:
         a = e.antoine
         out["stated:antoine"] = (f"{a.form}, A {a.A:g}, B {a.B:g}, C {a.C:g} ({a.pressure_unit}, {a.temperature_unit}),"
-                                 f" {a.t_min - 273.15:.1f} to {a.t_max - 273.15:.1f} °C [{a.source}]")
-    for name in _DERIVED_VALUES:
-        value = d.get(name)
-        if value is not None:
-            out[name] = f"{value.text()} ({value.kind})"
-    for name in _LABELS:
-        label = d.label(name)
-        if label is not None:
-            out[name] = label.text
+                                 f" {celsius_text(a.t_min, 1, unit=False)} to {celsius_text(a.t_max, 1)} [{a.source}]")
+    for q in compared():
+        if q.is_label:
+            if d.label(q.key) is not None:
+                out[q.key] = d.label(q.key).text
+        elif d.get(q.key) is not None:
+            out[q.key] = f"{d.get(q.key).text()} ({d.get(q.key).kind})"
     out["handling_notes"] = ", ".join(sorted(n.id for n in d.notes))
     out["links"] = ", ".join(f"{link.relation} {link.target}" for link in links)
     return {k: v for k, v in out.items() if v}
@@ -124,15 +123,15 @@ def snapshot(d: Derived, links=()) -> dict[str, str]:
 def _label(key: str) -> str:
     if key.startswith("stated:"):
         return f"{key[7:].replace('_', ' ')} (stated)"
-    return FIELDS.get(key, key.replace("_", " "))
+    return fields().get(key, key.replace("_", " "))
 
 
-_IDENTITY = ("name", "cas", "smiles", "formula", "inchikey", "hazard_statements", "locations")
+_IDENTITY = tuple(_IDENTITY_FIELDS)
 
 
 def _order(key: str) -> tuple:
-    """Identity first, then stated values, then derived values in ``FIELDS`` order."""
-    keys = list(FIELDS)
+    """Identity first, then stated values, then derived values in ``fields()`` order."""
+    keys = list(fields())
     if key.startswith("stated:"):
         return (1, 0, key)
     if key in _IDENTITY:

@@ -36,6 +36,7 @@ from pathlib import Path
 from builder.chem.identity import formula_counts, identify
 from builder.core.diagnostics import Diagnostic
 from builder.core.model import Catalog, Entry
+from builder.core.units import celsius_text
 from builder.derive.entry import Derived
 from builder.derive.fire import antoine_of
 
@@ -93,7 +94,7 @@ def _diag(entry: Entry, dotted: str, severity: str, message: str, hint: str | No
 
 
 def _c(kelvin: float) -> str:
-    return f"{kelvin - 273.15:.1f} °C"
+    return celsius_text(kelvin, 1)
 
 
 def _temperatures(d: Derived) -> list[Diagnostic]:

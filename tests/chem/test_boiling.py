@@ -34,6 +34,7 @@ def tb(smiles: str) -> float:
     return value
 
 
+@pytest.mark.slow
 def test_held_out_accuracy():
     ours = validation()["methods"]["joback_sb_trees"]["all"]
     assert ours["n"] > 800

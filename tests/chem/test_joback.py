@@ -41,6 +41,7 @@ def test_tb_matches_thermo_examples(smiles):
     assert joback(smiles).tb_K == pytest.approx(ref.Tb(ref.counts), abs=1e-9)
 
 
+@pytest.mark.slow
 def test_counts_and_tb_agree_with_thermo_on_crc_molecules():
     # thermo spells group names differently; pair the groups by their Tb
     # increment, which is unique within the published table.
