@@ -14,7 +14,6 @@ from pathlib import Path
 
 from builder import __version__
 from builder.core.diagnostics import CatalogError, Diagnostic, errors
-from builder.load.entries import load_catalog
 
 EXIT_OK, EXIT_ENTRIES, EXIT_USAGE, EXIT_TOOL, EXIT_OUTPUT = 0, 1, 2, 3, 4
 
@@ -29,12 +28,53 @@ def _say(message: str) -> None:
     print(f"cohesion: {message}", file=sys.stderr)
 
 
+class Progress:
+    """A one-line progress report on stderr for a terminal, after the first two seconds; silent otherwise."""
+
+    DELAY_S = 2.0
+
+    def __init__(self, stream=None, enabled: bool | None = None):
+        import time
+
+        self.stream = stream or sys.stderr
+        self.enabled = self.stream.isatty() if enabled is None else enabled
+        self.started = time.monotonic()
+        self.shown = False
+        self._clock = time.monotonic
+
+    def __call__(self, stage: str, done: int, total: int) -> None:
+        if not self.enabled or self._clock() - self.started < self.DELAY_S:
+            return
+        self.stream.write(f"\r\x1b[Kcohesion: {stage} {done}/{total}")
+        self.stream.flush()
+        self.shown = True
+
+    def close(self) -> None:
+        if self.shown:
+            self.stream.write("\r\x1b[K")
+            self.stream.flush()
+
+
+def _cache_for(args):
+    from builder.core.cache import Cache, default_cache_dir
+
+    if getattr(args, "no_cache", False):
+        return Cache(None)
+    return Cache(default_cache_dir(), notes=_say if getattr(args, "verbose", False) else None)
+
+
 def cmd_build(args) -> int:
+    import time
+
     from builder.core.output import OutputFailed, OutputRefused
     from builder.pipeline import build
 
+    progress = Progress(enabled=False if args.quiet else None)
+    cache = _cache_for(args)
+    started = time.monotonic()
     try:
-        built = build(Path(args.entries), Path(args.out), waiting_message=_say)
+        built = build(Path(args.entries), Path(args.out), waiting_message=_say, jobs=args.jobs, cache=cache,
+                      progress=progress)
     except OutputRefused as exc:
         print(f"cohesion build: refusing --out: {exc}", file=sys.stderr)
         return EXIT_USAGE
@@ -42,19 +82,32 @@ def cmd_build(args) -> int:
         print(f"cohesion build: {exc}", file=sys.stderr)
         return EXIT_OUTPUT
     except CatalogError as exc:
+        progress.close()
         _print_diagnostics(exc.diagnostics)
         print(f"cohesion: build stopped: {exc}; nothing was written to {args.out}", file=sys.stderr)
         return EXIT_ENTRIES
+    finally:
+        progress.close()
     _print_diagnostics(list(built.diagnostics))
+    if args.verbose:
+        _say(f"cache {cache.root or 'off'}: {cache.hits} reused, {cache.misses} computed; "
+             f"{time.monotonic() - started:.2f} s")
+    if args.quiet:
+        return EXIT_OK
     index = Path(args.out).resolve() / "index.html"
     warnings = sum(d.severity == "warning" for d in built.diagnostics)
-    print(f"Built {len(built.derived)} datasheets ({len(built.pages)} files, {warnings} warnings).")
+    if built.up_to_date:
+        print(f"Up to date: {built.entries} datasheets ({len(built.pages)} files, {warnings} warnings); "
+              "nothing changed since the last build.")
+    else:
+        print(f"Built {built.entries} datasheets ({len(built.pages)} files, {warnings} warnings).")
     print(f"Open {index.as_uri()}")
     return EXIT_OK
 
 
 def cmd_check(args) -> int:
     from builder.derive.catalog import derive_catalog
+    from builder.load.entries import load_catalog
 
     files = [Path(f) for f in args.files] if args.files else None
     if files:
@@ -66,7 +119,7 @@ def cmd_check(args) -> int:
     if catalog is not None:
         from builder.review.plausibility import check_catalog, check_files
 
-        derived = derive_catalog(catalog)
+        derived = derive_catalog(catalog, jobs=args.jobs, cache=_cache_for(args))
         plausible = check_files(Path(args.entries), catalog, derived) if files else check_catalog(catalog, derived)
         diagnostics = sorted(diagnostics + [f for d in derived for f in d.findings] + plausible)
     _print_diagnostics(diagnostics)
@@ -120,13 +173,21 @@ def cmd_schema(args) -> int:
     return EXIT_OK
 
 
+def _is_file(item: str) -> bool:
+    """Whether a profile argument names a file (a SMILES too long for a path name is not one)."""
+    try:
+        return Path(item).is_file()
+    except (OSError, ValueError):
+        return False
+
+
 def _smiles_inputs(items: list[str]) -> list[str]:
     out = []
     for item in items:
         if item == "-":
             lines = sys.stdin.read().splitlines()
-        elif Path(item).is_file():
-            lines = Path(item).read_text(encoding="utf-8").splitlines()
+        elif _is_file(item):
+            lines = Path(item).read_text(encoding="utf-8", errors="replace").splitlines()
         else:
             out.append(item)
             continue
@@ -144,7 +205,9 @@ def cmd_print(args) -> int:
         print("cohesion print: --paper takes a4, letter or a4,letter", file=sys.stderr)
         return EXIT_USAGE
     try:
-        pdfs = print_catalog(Path(args.entries), Path(args.out), papers)
+        from builder.derive.catalog import available_cpus
+
+        pdfs = print_catalog(Path(args.entries), Path(args.out), papers, jobs=args.jobs or available_cpus())
     except CatalogError as exc:
         _print_diagnostics(exc.diagnostics)
         print(f"cohesion: print stopped: {exc}; nothing was written to {args.out}", file=sys.stderr)
@@ -203,7 +266,12 @@ def cmd_profile(args) -> int:
         return EXIT_USAGE
     status = EXIT_OK
     for smiles in _smiles_inputs(args.smiles):
-        result = profile(smiles, given)
+        try:
+            result = profile(smiles, given)
+        except Exception as exc:  # noqa: BLE001 -- one bad input is an error row; the batch goes on
+            reason = (str(exc).strip().splitlines() or [""])[0].strip()
+            result = {"input": smiles, "error": f"could not derive properties: {type(exc).__name__}"
+                                                + (f": {reason}" if reason else "")}
         if "error" in result:
             status = EXIT_ENTRIES
         if args.json:
@@ -213,25 +281,49 @@ def cmd_profile(args) -> int:
     return status
 
 
+def _profile_rows(result: dict, forces: dict) -> list[tuple[str, dict]]:
+    """(label, value object) of a profile, each value once: the quantities of
+    builder/core/quantities.py in its order, then any other value under its key."""
+    from builder.core.quantities import DERIVED_QUANTITIES
+
+    found = {k: v for k, v in result.items() if isinstance(v, dict) and "value" in v}
+    found.update({k: v for k, v in forces.items() if isinstance(v, dict) and "value" in v and k not in found})
+    order = [k for k in DERIVED_QUANTITIES if k in found] + [k for k in found if k not in DERIVED_QUANTITIES]
+    return [(DERIVED_QUANTITIES[k].label if k in DERIVED_QUANTITIES else k, found[k]) for k in order]
+
+
+#: longest input echoed in full in the text output of ``profile`` (characters)
+SHOWN_INPUT = 80
+
+
+def _shown(text: str) -> str:
+    """An input line as the text output echoes it: control characters escaped, long ones cut."""
+    cut = text if len(text) <= SHOWN_INPUT else f"{text[:SHOWN_INPUT]}… ({len(text)} characters)"
+    return "".join(ch if ch.isprintable() else ch.encode("unicode_escape").decode("ascii") for ch in cut)
+
+
 def _print_profile_text(result: dict) -> None:
-    from builder.chem.handling import DISCLAIMER as NOTES_DISCLAIMER
+    from builder.core.units import format_value
+    from builder.derive.fire import NOTES_DISCLAIMER
 
     if "error" in result:
-        print(f"{result['input']}: error: {result['error']}")
+        print(f"{_shown(result['input'])}: error: {result['error']}")
         return
     print(f"{result['input']}  →  {result['smiles']}  {result['formula']}  {result['inchikey']}")
-    rows = [(k, v) for k, v in result.items() if isinstance(v, dict) and "value" in v]
     forces = result.get("forces", {})
-    rows += [(k, v) for k, v in forces.items() if isinstance(v, dict) and "value" in v and k not in result]
-    for key, val in rows:
+    for label, val in _profile_rows(result, forces):
         prov = val["provenance"]
         ref = prov.get("source") or prov.get("method")
-        unc = f" ± {val['uncertainty']:.3g}" if "uncertainty" in val else ""
-        print(f"  {key:<34} {val['value']:.6g}{unc} {val['unit']}  [{prov['kind']}: {ref}]")
+        shown = format_value(val["value"], val["unit"].replace("^", "**"), val.get("uncertainty"))
+        print(f"  {label:<46} {shown}  [{prov['kind']}: {ref}]")
+    for key, why in forces.get("not_computed", {}).items():
+        print(f"  {key:<34} {why}")
     if forces:
         print(f"  dominant force: {forces['dominant']} (present: {', '.join(forces['present'])})")
         for reason in forces["reasons"]:
             print(f"    - {reason}")
+        for note in forces.get("notes", []):
+            print(f"  note: {note}")
     if "flammable_category" in result:
         basis = result.get("flammable_category_basis", {})
         print(f"  flammable category: {basis.get('text', 'not a flammable liquid (no flash point)')}")
@@ -242,6 +334,23 @@ def _print_profile_text(result: dict) -> None:
     print()
 
 
+def _jobs(text: str) -> int:
+    try:
+        value = int(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"expected a whole number, got {text!r}") from None
+    if value < 1:
+        raise argparse.ArgumentTypeError("--jobs takes 1 or more")
+    return value
+
+
+def _add_speed_options(p: argparse.ArgumentParser) -> None:
+    p.add_argument("--jobs", type=_jobs, default=None, metavar="N",
+                   help="worker processes (default: the CPUs available)")
+    p.add_argument("--no-cache", action="store_true",
+                   help="compute everything afresh (the cache: $COHESION_CACHE_DIR, else ~/.cache/cohesion)")
+
+
 def parser() -> argparse.ArgumentParser:
     p = argparse.ArgumentParser(prog="cohesion", description="Build and check the materials catalog.")
     p.add_argument("--version", action="version", version=f"cohesion {__version__}")
@@ -250,18 +359,25 @@ def parser() -> argparse.ArgumentParser:
     b = sub.add_parser("build", help="build the static site")
     b.add_argument("--entries", default="entries", help="folder of entry files (default: entries)")
     b.add_argument("--out", default="site", help="output folder (default: site)")
+    _add_speed_options(b)
+    b.add_argument("--quiet", action="store_true", help="print only problems")
+    b.add_argument("--verbose", action="store_true", help="also say what the cache reused and how long it took")
     b.set_defaults(func=cmd_build)
 
     c = sub.add_parser("check", help="validate entries without building")
     c.add_argument("files", nargs="*", help="entry files to check (default: the whole entries folder)")
     c.add_argument("--entries", default="entries", help="folder with sources.yaml and locations.yaml")
     c.add_argument("--strict", action="store_true", help="treat warnings as failures")
+    _add_speed_options(c)
+    c.add_argument("--verbose", action="store_true", help="say when a cache file is ignored")
     c.set_defaults(func=cmd_check)
 
     pt = sub.add_parser("print", help="write the printouts (datasheets, shelf cards, store sheets) as PDF")
     pt.add_argument("--entries", default="entries", help="folder of entry files (default: entries)")
     pt.add_argument("--out", default="printouts", help="output folder for the PDFs (default: printouts)")
     pt.add_argument("--paper", default="a4,letter", help="a4, letter or a4,letter (default: both)")
+    pt.add_argument("--jobs", type=_jobs, default=None, metavar="N",
+                    help="browsers printing at once (default: the CPUs available)")
     pt.set_defaults(func=cmd_print)
 
     df = sub.add_parser("diff", help="what a change to the entries does to the catalog (Markdown or JSON)")
@@ -293,7 +409,19 @@ def parser() -> argparse.ArgumentParser:
     return p
 
 
+def _tolerant_streams() -> None:
+    """Never fail on a character the terminal's encoding lacks (an ASCII-only locale, say):
+    such characters are written as backslash escapes, and undecodable input bytes become U+FFFD."""
+    for stream, errors_mode in ((sys.stdout, "backslashreplace"), (sys.stderr, "backslashreplace"),
+                                (sys.stdin, "replace")):
+        try:
+            stream.reconfigure(errors=errors_mode)
+        except (AttributeError, ValueError, OSError):
+            pass  # not a text stream we can adjust (replaced by a caller, closed)
+
+
 def main(argv: list[str] | None = None) -> int:
+    _tolerant_streams()
     args = parser().parse_args(argv)
     return args.func(args)
 

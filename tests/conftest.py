@@ -5,10 +5,14 @@ import importlib.util
 import os
 import shutil
 import sys
+import tempfile
 import textwrap
 from pathlib import Path
 
 import pytest
+
+# every test session gets a cache of its own (never the user's ~/.cache/cohesion)
+os.environ["COHESION_CACHE_DIR"] = tempfile.mkdtemp(prefix="cohesion-test-cache-")
 
 ROOT = Path(__file__).resolve().parent.parent
 DEMO = ROOT / "entries"
@@ -70,6 +74,16 @@ def make_entries(tmp_path):
 
 CHROMIUM = shutil.which("chromium") or "/usr/bin/chromium"
 BROWSER_REQUIRED = bool(os.environ.get("COHESION_REQUIRE_BROWSER"))
+
+
+@pytest.fixture(scope="session")
+def chromium_command():
+    """Chromium for tests that run ``cohesion print``: skips when absent unless COHESION_REQUIRE_BROWSER is set."""
+    if not Path(CHROMIUM).exists():
+        if BROWSER_REQUIRED:
+            pytest.fail(f"{CHROMIUM} not found but COHESION_REQUIRE_BROWSER is set")
+        pytest.skip("Debian's chromium is not installed (apt-get install -y chromium)")
+    return CHROMIUM
 
 
 @pytest.fixture(scope="session")

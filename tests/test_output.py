@@ -35,7 +35,8 @@ def _leftovers(parent: Path, name: str = "site") -> list[str]:
 
 
 def _build(folder: Path, out: Path) -> int:
-    return main(["build", "--entries", str(folder), "--out", str(out)])
+    """An in-process build that always writes (no cache, so an unchanged catalog is built again)."""
+    return main(["build", "--entries", str(folder), "--out", str(out), "--no-cache"])
 
 
 # ----------------------------------------------------------------------------- what --out may replace

@@ -96,7 +96,8 @@ def test_store_sheets_print_on_one_page_with_their_materials(site, printer):
         assert "not a safety data sheet" in text
 
 
-def test_print_command_writes_pdfs(make_entries, tmp_path, capsys):
+def test_print_command_writes_pdfs(make_entries, tmp_path, capsys, chromium_command, monkeypatch):
+    monkeypatch.setenv("COHESION_CHROMIUM", chromium_command)
     folder = make_entries({"ethanol.yaml": ETHANOL})
     out = tmp_path / "pdf"
     assert main(["print", "--entries", str(folder), "--out", str(out), "--paper", "a4"]) == 0

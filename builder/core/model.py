@@ -5,6 +5,7 @@ nothing changes it afterwards.  Derived values live elsewhere (``derive.py``).
 """
 from __future__ import annotations
 
+import copyreg
 from dataclasses import dataclass, field
 from types import MappingProxyType
 from typing import Mapping
@@ -19,6 +20,14 @@ PROVENANCE_OF_SOURCE = {"handbook": "literature", "paper": "literature", "standa
 
 def frozen_map(mapping: Mapping | None = None) -> Mapping:
     return MappingProxyType(dict(mapping or {}))
+
+
+def _thawed(items: dict) -> Mapping:
+    return MappingProxyType(items)
+
+
+# read-only maps travel to worker processes and into the cache as plain dicts
+copyreg.pickle(MappingProxyType, lambda m: (_thawed, (dict(m),)))
 
 
 @dataclass(frozen=True)

@@ -37,6 +37,26 @@ MARKER_TEXT = ("This folder was written by cohesion. The next build may replace 
                "keep nothing else in it.\n")
 
 
+def write_marker(folder: Path, summary: dict) -> None:
+    """The marker of a finished output folder, with what the build records about it (JSON after the text)."""
+    import json
+
+    text = MARKER_TEXT + json.dumps(summary, ensure_ascii=False, sort_keys=True) + "\n"
+    (folder / MARKER).write_text(text, encoding="utf-8")
+
+
+def read_marker(folder: Path) -> dict | None:
+    """What ``write_marker`` recorded in ``folder``, or None (no marker, an older or damaged one)."""
+    import json
+
+    try:
+        lines = (folder / MARKER).read_text(encoding="utf-8").splitlines()
+        summary = json.loads(lines[1]) if len(lines) > 1 else None
+    except (OSError, ValueError, UnicodeDecodeError):
+        return None
+    return summary if isinstance(summary, dict) else None
+
+
 class OutputRefused(Exception):
     """``--out`` names a folder the builder must not replace; the message says why."""
 
@@ -213,6 +233,14 @@ def swap_in(tmp: Path, out: Path) -> None:
     fault_point("between-renames")
     os.replace(tmp, out)
     shutil.rmtree(old, ignore_errors=True)
+
+
+def tidy(out: Path, waiting_message=None) -> None:
+    """Clear leftovers of killed builds beside ``out`` (under the lock) when nothing else is to be written."""
+    out = Path(out).resolve()
+    if out.parent.is_dir():
+        with _lock(out, waiting_message):
+            clean_leftovers(out)
 
 
 @contextlib.contextmanager

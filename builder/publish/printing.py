@@ -2,7 +2,7 @@
 
 ``print_pages`` (called by ``builder.pipeline.print_catalog``, which builds the site into a
 temporary folder first) prints every datasheet, every shelf-card page and every store sheet once per paper size
-(A4, US Letter) with ``chromium --headless --print-to-pdf``.  The paper size is chosen by
+(A4, US Letter) in headless Chromium, a few browsers started once (``cdp.py``).  The paper size is chosen by
 a small stylesheet (``assets/paper-<size>.css``) linked into a copy of each page, since
 the command line honours the page's own ``@page`` size.  Like the site, the PDFs are
 written to a temporary folder and swapped into place only when all succeeded.
@@ -11,7 +11,6 @@ from __future__ import annotations
 
 import os
 import shutil
-import subprocess
 import tempfile
 from concurrent.futures import ThreadPoolExecutor
 from pathlib import Path
@@ -58,15 +57,6 @@ def _variant(site: Path, page: str, paper: str) -> Path:
     return target
 
 
-def _print_one(chromium: str, work: Path, page: Path, pdf: Path) -> None:
-    pdf.parent.mkdir(parents=True, exist_ok=True)
-    with tempfile.TemporaryDirectory(dir=work, prefix="profile-") as profile:  # one browser profile per run
-        cmd = [chromium, *CHROMIUM_FLAGS, f"--user-data-dir={profile}", f"--print-to-pdf={pdf}", page.as_uri()]
-        result = subprocess.run(cmd, capture_output=True, text=True, timeout=120)
-    if result.returncode != 0 or not pdf.exists():
-        raise PrintError(f"chromium could not print {page.name}: {result.stderr.strip()[-300:]}")
-
-
 def find_chromium_or_fail() -> str:
     chromium = find_chromium()
     if chromium is None:
@@ -77,13 +67,33 @@ def find_chromium_or_fail() -> str:
 
 
 def print_pages(chromium: str, work: Path, site: Path, pdf_root: Path, papers=PAPERS, jobs: int = 2) -> None:
-    """Print every printable page of the built ``site`` once per paper into ``pdf_root/<paper>/``."""
+    """Print every printable page of the built ``site`` once per paper into ``pdf_root/<paper>/``.
+
+    ``jobs`` browsers, each started once and kept for its share of the pages (DevTools
+    protocol over a pipe, ``cdp.py``); the order of the pages decides nothing.
+    """
+    from builder.publish.cdp import Browser, ProtocolError
+
     tasks = []
     for paper in papers:
         for page in printable_pages(site):
-            pdf = pdf_root / paper / page.replace(".html", ".pdf")
-            tasks.append((_variant(site, page, paper), pdf))
+            tasks.append((_variant(site, page, paper), pdf_root / paper / page.replace(".html", ".pdf")))
+    if not tasks:
+        return
+    jobs = max(1, min(jobs, len(tasks)))
+
+    def run(share: list[tuple[Path, Path]], n: int) -> None:
+        profile = Path(tempfile.mkdtemp(dir=work, prefix=f"profile-{n}-"))
+        try:
+            with Browser(chromium, CHROMIUM_FLAGS, profile, start_url=(site / "index.html").as_uri()) as browser:
+                for page, pdf in share:
+                    browser.print_pdf(page.as_uri(), pdf)
+        except (ProtocolError, OSError) as exc:
+            raise PrintError(f"chromium could not print: {exc}") from exc
+        finally:
+            shutil.rmtree(profile, ignore_errors=True)
+
     with ThreadPoolExecutor(max_workers=jobs) as pool:
-        futures = [pool.submit(_print_one, chromium, work, page, pdf) for page, pdf in tasks]
+        futures = [pool.submit(run, tasks[n::jobs], n) for n in range(jobs)]
         for future in futures:
             future.result()

@@ -13,7 +13,7 @@ from builder.core.model import Catalog
 from builder.derive.entry import Derived
 from builder.derive.forces import FORCE_WORDS
 from builder.derive.links import Link, cross_links, homologous_series
-from builder.publish import charts, exports
+from builder.publish import charts, exports, svgchart
 from builder.publish.revision import Revision
 from builder.publish.stores import store_sheet
 from builder.publish.templating import TEMPLATES, Writer, environment, revision_text
@@ -68,7 +68,7 @@ def _catalog_charts(derived) -> tuple[str, list]:
             force = d.label("dominant_force").code if d.label("dominant_force") else None
             points.append((d.entry.name, mm.value, bp.value, force, bp.kind == "estimated"))
     masses = [p[1] for p in points] or [100.0]
-    top = min(max(masses) * 1.1, 366.0)
+    top = max(min(max(masses) * 1.1, 366.0), 30.0)  # the n-alkane table starts at methane (16 g/mol)
     alkane = [(m, n_alkane_boiling_point(m)) for m in [16.05 + i * (top - 16.05) / 60 for i in range(61)]]
     main_chart = charts.boiling_vs_mass_svg(points, alkane)
     series_charts = []
@@ -81,8 +81,8 @@ def _catalog_charts(derived) -> tuple[str, list]:
 
 
 def render_site(catalog: Catalog, derived: tuple[Derived, ...], out: Path, diagnostics=(),
-                revision: Revision | None = None) -> list[str]:
-    """Write every page of the site into the (empty) folder ``out``."""
+                revision: Revision | None = None, progress=None) -> list[str]:
+    """Write every page of the site into the (empty) folder ``out``; ``progress(done, total)`` per datasheet."""
     env = environment()
     revision = revision or Revision(None, None, False, {})
     stamp = (f"catalog data of {revision.date[:10]} ({revision.commit[:7]}{', uncommitted changes' if revision.dirty else ''})"
@@ -120,7 +120,9 @@ def render_site(catalog: Catalog, derived: tuple[Derived, ...], out: Path, diagn
                     **common)
         writer.page(f"stores/{key}.html", "store_sheet.html", stamp=stamp, **store_sheet(catalog, derived, key),
                     **common)
-    for d in derived:
+    for done, d in enumerate(derived):
+        if progress:
+            progress(done, len(derived))
         eid = d.entry.id
         if d.identity is not None:
             writer.text(f"materials/{eid}.svg", depict_svg(d.identity.smiles))
@@ -130,7 +132,7 @@ def render_site(catalog: Catalog, derived: tuple[Derived, ...], out: Path, diagn
             vp = d.entry.properties.get("vapor_pressure")
             if vp is not None:
                 points.append(("stated value", dict(vp.conditions)["at"], vp.value))
-            writer.text(f"materials/{eid}-vapor.svg", charts.vapor_curve_svg(
+            writer.text(f"materials/{eid}-vapor.svg", svgchart.vapor_curve_svg(
                 [(s.kind, s.temperatures, s.pressures) for s in d.curve], points, store.value if store else None))
         writer.text(f"data/{eid}.json", exports.entry_file_json(d, links.get(eid, ())))
         used = sorted({v.provenance.source for v in d.values.values() if v.provenance.source}
@@ -138,4 +140,6 @@ def render_site(catalog: Catalog, derived: tuple[Derived, ...], out: Path, diagn
         writer.page(f"materials/{eid}.html", "datasheet.html", d=d, links=links.get(eid, ()),
                     sources=[catalog.sources[k] for k in used if k in catalog.sources],
                     json_ld=exports.json_ld(d), **common)
+    if progress:
+        progress(len(derived), len(derived))
     return writer.written

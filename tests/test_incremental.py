@@ -1,0 +1,190 @@
+"""The cache and the worker processes never change what a build writes.
+
+Every check compares a cached, incremental or parallel build with a cold, serial one of the
+same entries: they must be byte-identical (our own rule: DEVELOPERS.md, "Speed").
+"""
+from __future__ import annotations
+
+import hashlib
+import io
+import subprocess
+import sys
+from pathlib import Path
+
+import pytest
+
+from builder.cli import Progress, main
+from builder.core import cache as cache_module
+from builder.core.cache import Cache
+from builder.core.output import read_marker
+from conftest import ETHANOL, ROOT
+
+TOLUENE = """\
+name: Toluene
+smiles: Cc1ccccc1
+catalog:
+  code: T-2
+  locations: [store-a]
+properties:
+  boiling_point:
+    value: 110.6 °C
+    source: crc-95
+"""
+
+
+def _digest(folder: Path) -> dict[str, str]:
+    return {str(p.relative_to(folder)): hashlib.sha256(p.read_bytes()).hexdigest()
+            for p in sorted(folder.rglob("*")) if p.is_file()}
+
+
+def _build(folder: Path, out: Path, *extra: str) -> int:
+    return main(["build", "--entries", str(folder), "--out", str(out), *extra])
+
+
+def _cold(folder: Path, out: Path) -> dict[str, str]:
+    assert _build(folder, out, "--no-cache", "--jobs", "1") == 0
+    return _digest(out)
+
+
+@pytest.fixture
+def cached(tmp_path, monkeypatch):
+    """A cache folder of this test's own."""
+    root = tmp_path / "cache"
+    monkeypatch.setenv("COHESION_CACHE_DIR", str(root))
+    return root
+
+
+def test_an_unchanged_catalog_is_not_rebuilt(make_entries, tmp_path, cached, capsys):
+    folder = make_entries({"ethanol.yaml": ETHANOL, "toluene.yaml": TOLUENE})
+    out = tmp_path / "site"
+    assert _build(folder, out) == 0
+    before = {p: p.stat().st_mtime_ns for p in out.rglob("*") if p.is_file()}
+    capsys.readouterr()
+    assert _build(folder, out) == 0
+    assert "Up to date: 2 datasheets" in capsys.readouterr().out
+    assert {p: p.stat().st_mtime_ns for p in out.rglob("*") if p.is_file()} == before
+
+
+@pytest.mark.parametrize("edit", ["entry", "store", "source", "model"])
+def test_each_kind_of_edit_gives_what_a_cold_build_gives(make_entries, tmp_path, cached, monkeypatch, edit):
+    folder = make_entries({"ethanol.yaml": ETHANOL, "toluene.yaml": TOLUENE})
+    out = tmp_path / "site"
+    assert _build(folder, out) == 0
+    first = _digest(out)
+    if edit == "entry":
+        (folder / "toluene.yaml").write_text(TOLUENE.replace("110.6 °C", "111.0 °C"), encoding="utf-8")
+    elif edit == "store":
+        text = (folder / "locations.yaml").read_text(encoding="utf-8")
+        (folder / "locations.yaml").write_text(text.replace("30 °C", "45 °C"), encoding="utf-8")
+    elif edit == "source":
+        text = (folder / "sources.yaml").read_text(encoding="utf-8")
+        (folder / "sources.yaml").write_text(text.replace("95th", "96th"), encoding="utf-8")
+    else:  # a new model file or code version: every cached result is stale
+        monkeypatch.setattr(cache_module, "code_version", lambda: "another code version")
+        import builder.derive.catalog as derive_catalog
+        import builder.pipeline as pipeline
+
+        monkeypatch.setattr(derive_catalog, "code_version", lambda: "another code version")
+        monkeypatch.setattr(pipeline, "code_version", lambda: "another code version")
+    assert _build(folder, out) == 0
+    incremental = _digest(out)
+    cold = _cold(folder, tmp_path / "cold")
+    assert incremental == cold
+    changed = {k for k in cold if first.get(k) != cold[k]}
+    if edit == "entry":
+        assert "materials/toluene.html" in changed and "materials/ethanol.html" not in changed
+    elif edit == "store":
+        assert {"materials/ethanol.html", "stores/store-a.html"} <= changed
+    elif edit == "source":
+        assert "sources.html" in changed
+    else:
+        assert changed <= {".cohesion-output"}  # same code in truth: same pages
+
+
+def test_only_the_edited_entry_is_derived_again(make_entries, cached):
+    from builder.derive.catalog import derive_catalog
+    from builder.load.entries import load_catalog
+
+    folder = make_entries({"ethanol.yaml": ETHANOL, "toluene.yaml": TOLUENE})
+    cache = Cache(cached)
+    catalog, _ = load_catalog(folder)
+    derive_catalog(catalog, cache=cache)
+    assert (cache.hits, cache.misses) == (0, 2)
+    (folder / "toluene.yaml").write_text(TOLUENE.replace("T-2", "T-3"), encoding="utf-8")
+    catalog, _ = load_catalog(folder)
+    derive_catalog(catalog, cache=cache)
+    assert (cache.hits, cache.misses) == (1, 3)
+
+
+def test_a_damaged_cache_file_is_recomputed(make_entries, tmp_path, cached, capsys):
+    folder = make_entries({"ethanol.yaml": ETHANOL, "toluene.yaml": TOLUENE})
+    assert _build(folder, tmp_path / "site") == 0
+    files = sorted(cached.rglob("*.pickle"))
+    assert len(files) == 2
+    files[0].write_bytes(b"not a pickle")
+    files[1].write_bytes(files[1].read_bytes()[:40])
+    capsys.readouterr()
+    assert _build(folder, tmp_path / "again", "--verbose") == 0
+    err = capsys.readouterr().err
+    assert err.count("ignoring unreadable") == 2 and "Traceback" not in err
+    assert _digest(tmp_path / "again") == _cold(folder, tmp_path / "cold")
+
+
+def test_an_unwritable_cache_only_costs_time(make_entries, tmp_path, monkeypatch, capsys):
+    blocker = tmp_path / "cache-is-a-file"
+    blocker.write_text("x", encoding="utf-8")
+    monkeypatch.setenv("COHESION_CACHE_DIR", str(blocker / "sub"))
+    folder = make_entries({"ethanol.yaml": ETHANOL})
+    assert _build(folder, tmp_path / "site", "--verbose") == 0
+    assert "cannot write" in capsys.readouterr().err
+
+
+@pytest.mark.slow
+def test_parallel_and_serial_builds_are_byte_identical(tmp_path):
+    demo = ROOT / "entries"
+    assert _build(demo, tmp_path / "serial", "--no-cache", "--jobs", "1") == 0
+    assert _build(demo, tmp_path / "parallel", "--no-cache", "--jobs", "2") == 0
+    assert _digest(tmp_path / "serial") == _digest(tmp_path / "parallel")
+    summary = read_marker(tmp_path / "parallel")
+    assert summary["entries"] == len(list(demo.glob("*.yaml"))) - 2  # less sources.yaml, locations.yaml
+
+
+def test_progress_shows_on_a_terminal_only():
+    class Terminal(io.StringIO):
+        def isatty(self):
+            return True
+
+    tty, pipe = Terminal(), io.StringIO()
+    for stream in (tty, pipe):
+        progress = Progress(stream)
+        progress.started -= Progress.DELAY_S  # a build that has run for a while
+        progress("derive", 3, 10)
+        progress.close()
+    assert "derive 3/10" in tty.getvalue() and tty.getvalue().endswith("\r\x1b[K")
+    assert pipe.getvalue() == ""
+    quick = Terminal()
+    Progress(quick)("derive", 1, 2)  # the first two seconds stay quiet
+    assert quick.getvalue() == ""
+
+
+def test_a_build_to_a_pipe_prints_no_progress(make_entries, tmp_path):
+    folder = make_entries({"ethanol.yaml": ETHANOL})
+    result = subprocess.run([sys.executable, "-m", "builder", "build", "--entries", str(folder), "--out",
+                             str(tmp_path / "site")], cwd=ROOT, capture_output=True, text=True, timeout=300)
+    assert result.returncode == 0
+    assert "\r" not in result.stderr and "\x1b" not in result.stderr
+
+
+def test_a_defect_while_deriving_is_an_error_on_the_entry_not_a_traceback(make_entries, tmp_path, monkeypatch,
+                                                                          capsys):
+    import builder.derive.catalog as derive_catalog
+
+    def broken(entry, stores):
+        raise ZeroDivisionError("float division by zero")
+
+    monkeypatch.setattr(derive_catalog, "derive_entry", broken)
+    folder = make_entries({"ethanol.yaml": ETHANOL})
+    assert _build(folder, tmp_path / "site", "--no-cache") == 1
+    err = capsys.readouterr().err
+    assert "ethanol.yaml:3:9: error: the builder failed while deriving this entry (ZeroDivisionError" in err
+    assert "Traceback" not in err and not (tmp_path / "site").exists()

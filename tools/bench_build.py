@@ -1,0 +1,191 @@
+"""Build-time benchmark on generated catalogs (a report, not a test).
+
+Generates N-entry catalogs from the CRC Handbook organic table shipped in the
+``chemicals`` package (real structures, stated boiling points, IEC 60079-20-1 flash
+points where that table has one) and times ``cohesion build`` as a whole process:
+
+- cold: empty cache, no previous site;
+- no-op: the same build again;
+- one edit: one entry's boiling point changed;
+- add one: one new entry;
+- floor: read every YAML file, parse each SMILES and write a trivial page (in-process),
+  what any builder has to do at the least.
+
+Peak memory is the largest resident set of the build or any process it started.
+
+    python tools/bench_build.py --sizes 250,1000,3000 [--jobs N]
+
+Needs the test extra (``pip install -e '.[test]'``) for ``chemicals``.
+"""
+from __future__ import annotations
+
+import argparse
+import json
+import os
+import re
+import subprocess
+import sys
+import tempfile
+import time
+from pathlib import Path
+
+ROOT = Path(__file__).resolve().parents[1]
+if str(ROOT) not in sys.path:
+    sys.path.insert(0, str(ROOT))
+
+SOURCES = """\
+crc-95:
+  title: CRC Handbook of Chemistry and Physics
+  kind: handbook
+  edition: 95th
+  year: 2014
+iec-60079-20-1:
+  title: "IEC 60079-20-1: Explosive atmospheres, material characteristics for gas and vapour classification"
+  kind: standard
+  year: 2010
+"""
+LOCATIONS = """\
+store-a:
+  name: Bench store A
+  max_store_temperature: 30 °C
+store-b:
+  name: Bench store B
+store-c:
+  name: Bench store C
+  max_store_temperature: 40 °C
+"""
+
+#: a child process reports its own peak memory this way (ru_maxrss is in KiB on Linux)
+_RUNNER = ("import resource, sys; from builder.cli import main; code = main(sys.argv[1:]); "
+           "peak = max(resource.getrusage(resource.RUSAGE_SELF).ru_maxrss, "
+           "resource.getrusage(resource.RUSAGE_CHILDREN).ru_maxrss); "
+           "print('PEAK_KIB', peak, file=sys.stderr); sys.exit(code)")
+
+
+def _slug(name: str, used: set[str]) -> str:
+    base = re.sub(r"[^a-z0-9]+", "-", name.lower()).strip("-")[:48].strip("-") or "compound"
+    slug, n = base, 2
+    while slug in used:
+        slug, n = f"{base}-{n}", n + 1
+    used.add(slug)
+    return slug
+
+
+def reference_rows() -> list[dict]:
+    """CRC organic compounds with a structure the boiling-point model accepts, in CAS order."""
+    from chemicals.safety import T_flash
+
+    from builder.fitting.boiling import load_records
+
+    rows, seen = [], set()
+    for rec in load_records():
+        if rec.inchikey in seen:  # one structure, one entry (the build refuses duplicates)
+            continue
+        seen.add(rec.inchikey)
+        try:
+            flash = T_flash(rec.cas, method="IEC 60079-20-1 (2010)")
+        except Exception:  # noqa: BLE001 - the reference lookup raises for unknown methods/CAS
+            flash = None
+        rows.append({"cas": rec.cas, "name": rec.name, "smiles": rec.smiles, "tb": rec.tb_K, "flash": flash})
+    return rows
+
+
+def entry_text(row: dict, index: int, tb_shift: float = 0.0) -> str:
+    store = ("store-a", "store-b", "store-c")[index % 3]
+    name = row["name"].replace('"', "'")
+    lines = [f'name: "{name}"', f"cas: {row['cas']}", f"smiles: '{row['smiles']}'", "catalog:",
+             f"  code: B-{index:05d}", f"  locations: [{store}]", "properties:",
+             f"  boiling_point: {{value: {row['tb'] + tb_shift:.2f} K, source: crc-95}}"]
+    if row["flash"]:
+        lines.append(f"  flash_point: {{value: {row['flash']:.2f} K, source: iec-60079-20-1}}")
+    return "\n".join(lines) + "\n"
+
+
+def write_catalog(folder: Path, rows: list[dict]) -> list[Path]:
+    folder.mkdir(parents=True)
+    (folder / "sources.yaml").write_text(SOURCES, encoding="utf-8")
+    (folder / "locations.yaml").write_text(LOCATIONS, encoding="utf-8")
+    used: set[str] = set()
+    paths = []
+    for i, row in enumerate(rows):
+        path = folder / f"{_slug(row['name'], used)}.yaml"
+        path.write_text(entry_text(row, i), encoding="utf-8")
+        paths.append(path)
+    return paths
+
+
+def timed_build(entries: Path, out: Path, env: dict, jobs: int | None) -> tuple[float, float]:
+    cmd = [sys.executable, "-c", _RUNNER, "build", "--entries", str(entries), "--out", str(out)]
+    if jobs:
+        cmd += ["--jobs", str(jobs)]
+    start = time.perf_counter()
+    result = subprocess.run(cmd, cwd=entries.parent, env=env, capture_output=True, text=True)
+    wall = time.perf_counter() - start
+    if result.returncode != 0:
+        raise SystemExit(f"build failed ({result.returncode}):\n{result.stderr[-2000:]}")
+    peak = max((int(line.split()[1]) for line in result.stderr.splitlines() if line.startswith("PEAK_KIB")),
+               default=0)
+    return wall, peak / 1024.0
+
+
+def floor_seconds(entries: Path, out: Path) -> float:
+    """Read each YAML file, parse its SMILES, write a trivial page: the least a build does."""
+    import yaml
+    from rdkit import Chem, RDLogger
+
+    RDLogger.DisableLog("rdApp.*")
+    out.mkdir(parents=True, exist_ok=True)
+    start = time.perf_counter()
+    for path in sorted(entries.glob("*.yaml")):
+        if path.name in ("sources.yaml", "locations.yaml"):
+            continue
+        data = yaml.safe_load(path.read_text(encoding="utf-8"))
+        Chem.MolFromSmiles(data["smiles"])
+        (out / f"{path.stem}.html").write_text(f"<!doctype html><title>{data['name']}</title>\n", encoding="utf-8")
+    return time.perf_counter() - start
+
+
+def bench(n: int, rows: list[dict], jobs: int | None) -> dict:
+    if n + 1 > len(rows):
+        raise SystemExit(f"only {len(rows)} reference compounds; ask for fewer than {len(rows)}")
+    with tempfile.TemporaryDirectory(prefix=f"cohesion-bench-{n}-") as work:
+        work = Path(work)
+        entries = work / "entries"
+        paths = write_catalog(entries, rows[:n])
+        env = dict(os.environ, COHESION_CACHE_DIR=str(work / "cache"))
+        out = work / "site"
+        result = {"entries": n}
+        result["cold_s"], result["cold_peak_mb"] = timed_build(entries, out, env, jobs)
+        result["noop_s"], result["noop_peak_mb"] = timed_build(entries, out, env, jobs)
+        edited = paths[n // 2]
+        edited.write_text(entry_text(rows[n // 2], n // 2, tb_shift=1.0), encoding="utf-8")
+        result["edit_s"], result["edit_peak_mb"] = timed_build(entries, out, env, jobs)
+        used = {p.stem for p in paths}
+        (entries / f"{_slug(rows[n]['name'], used)}.yaml").write_text(entry_text(rows[n], n), encoding="utf-8")
+        result["add_s"], result["add_peak_mb"] = timed_build(entries, out, env, jobs)
+        result["floor_s"] = floor_seconds(entries, work / "floor")
+        result["peak_mb"] = max(result[k] for k in result if k.endswith("_peak_mb"))
+        return result
+
+
+def main(argv=None) -> int:
+    p = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+    p.add_argument("--sizes", default="250,1000", help="comma-separated catalog sizes (default 250,1000)")
+    p.add_argument("--jobs", type=int, default=None, help="pass --jobs N to the build")
+    p.add_argument("--json", action="store_true", help="print the results as JSON lines too")
+    args = p.parse_args(argv)
+    rows = reference_rows()
+    print(f"{len(rows)} reference compounds available (CRC organic table in chemicals)")
+    header = f"{'entries':>8} {'cold s':>8} {'no-op s':>8} {'1 edit s':>9} {'add 1 s':>8} {'peak MB':>8} {'floor s':>8}"
+    print(header)
+    for n in (int(s) for s in args.sizes.split(",") if s.strip()):
+        r = bench(n, rows, args.jobs)
+        print(f"{r['entries']:>8} {r['cold_s']:>8.1f} {r['noop_s']:>8.2f} {r['edit_s']:>9.2f} {r['add_s']:>8.2f} "
+              f"{r['peak_mb']:>8.0f} {r['floor_s']:>8.2f}", flush=True)
+        if args.json:
+            print(json.dumps(r))
+    return 0
+
+
+if __name__ == "__main__":
+    sys.exit(main())
