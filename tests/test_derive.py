@@ -42,7 +42,7 @@ def test_hazard_statements_contradicting_the_flash_point_warn(make_entries, caps
             "  boiling_point: {value: 78.3 °C, source: crc-95}\n  flash_point: {value: 12 °C, source: crc-95}\n")
     status, err = _check(make_entries, {"ethanol.yaml": text}, capsys)
     assert "ethanol.yaml:3:20: warning: hazard statements disagree with the flash point" in err
-    fixed = text.replace("H226", "H225")
+    fixed = text.replace("H226", "H225").replace("H319]\n", "H319]\nhazard_source: crc-95\n")
     status, err = _check(make_entries, {"ethanol.yaml": fixed}, capsys, strict=True)
     assert status == 0, err
 
@@ -96,9 +96,13 @@ def demo():
 def test_every_demo_entry_has_forces_boiling_point_and_fire_sections(demo):
     for d in demo:
         assert d.forces is not None and d.forces.reasons, d.entry.id
-        assert d.get("boiling_point") is not None, d.entry.id
+        assert d.label("physical_state") is not None, d.entry.id
+        if d.get("boiling_point") is None:  # a salt: the reason is shown instead (never a silent gap)
+            assert d.label("boiling_point_missing").text.startswith("No boiling point: "), d.entry.id
+            continue
         assert d.label("volatility_band") is not None, d.entry.id
-        assert d.curve, d.entry.id
+        # no vapor-pressure curve for a gas: the store temperatures lie above its boiling point
+        assert d.curve or d.label("physical_state").code == "gas", d.entry.id
 
 
 def test_in_house_intermediate_is_estimated_and_says_so(demo):
@@ -106,6 +110,26 @@ def test_in_house_intermediate_is_estimated_and_says_so(demo):
     assert d.get("boiling_point").kind == "estimated" and d.get("boiling_point").uncertainty > 0
     assert d.get("flash_point").kind == "estimated"
     assert "estimated" in (d.label("flammable_category").provenance.note or "")
+
+
+def test_a_label_from_an_estimate_is_tagged_as_an_estimate(demo):
+    # the key says E marks an estimate: a category or band resting on one must carry E, not R
+    d = next(x for x in demo if x.entry.id == "hm-7-hydroxy-ester")
+    for key in ("flammable_category", "flammable_category_range", "volatility_band"):
+        assert d.label(key).kind == "estimated", key
+    assert d.get("saturated_vapor_concentration_20C").kind == d.get("vapor_pressure_20C").kind == "estimated"
+    # all inputs stated: the rule's own kind
+    toluene = next(x for x in demo if x.entry.id == "toluene")
+    assert toluene.label("flammable_category").kind == "rule"
+    assert toluene.label("volatility_band").kind == "rule"
+
+
+def test_hazard_statements_carry_their_source(demo):
+    toluene = next(x for x in demo if x.entry.id == "toluene")
+    lab = toluene.label("hazard_statements")
+    assert lab.kind == "literature" and lab.provenance.source == "clp-annex-vi"
+    assert lab.code == toluene.entry.hazard_statements
+    assert all(x.label("hazard_statements") is not None for x in demo if x.entry.hazard_statements)
 
 
 def test_heavily_halogenated_liquid_gets_no_flash_point_estimate(demo):
@@ -118,3 +142,45 @@ def test_store_temperature_comes_from_the_warmest_store(demo):
     d = next(x for x in demo if x.entry.id == "ethanol")  # flammables cabinet 30 °C and pilot bay 35 °C
     assert d.get("store_temperature").value == pytest.approx(308.15)
     assert d.get("store_temperature").kind == "rule"
+
+
+def test_hazard_statements_contradicting_the_physical_state_warn(make_entries, capsys):
+    # propane, CRC Tm 85.4 K and Tb 231.04 K: a gas at 20 °C, so H225 (flammable liquid, UN GHS ch. 2.6) is wrong
+    text = ("name: Propane\nsmiles: CCC\nhazard_statements: [H225]\nhazard_source: crc-95\nproperties:\n"
+            "  boiling_point: {value: 231.04 K, source: crc-95}\n  melting_point: {value: 85.4 K, source: crc-95}\n")
+    status, err = _check(make_entries, {"propane.yaml": text}, capsys)
+    assert "hazard statements disagree with the physical state: H225 (flammable liquid) declared for a gas" in err
+    # toluene, CRC Tb 383.75 K: a liquid, so H220 (flammable gas, ch. 2.2) is wrong too
+    text = ("name: Toluene\nsmiles: Cc1ccccc1\nhazard_statements: [H220]\nhazard_source: crc-95\nproperties:\n"
+            "  boiling_point: {value: 383.75 K, source: crc-95}\n  melting_point: {value: 178.15 K, source: crc-95}\n")
+    status, err = _check(make_entries, {"toluene.yaml": text}, capsys)
+    assert "H220 (gas) declared for a liquid" in err
+    fixed = text.replace("H220", "H225")
+    status, err = _check(make_entries, {"toluene.yaml": fixed}, capsys)
+    assert not [line for line in err.splitlines() if "toluene.yaml" in line and "physical state" in line]
+
+
+def test_profile_json_has_state_and_hazard_classes(capsys):
+    # ethylene with its CRC points (Tm 104.0 K, Tb 169.38 K): a gas; no flammable-liquid category
+    (obj,) = _profile(capsys, "C=C", "--given", "boiling_point=169.38 K", "--given", "melting_point=104.0 K")
+    assert obj["physical_state"]["value"] == "gas" and obj["physical_state"]["alternatives"] == ["gas"]
+    assert obj["physical_state"]["provenance"]["method"] == "physical-state"
+    assert obj["flammable_category"] is None
+    classes = {c["class"]: c for c in obj["hazard_classes"]}
+    assert set(classes) == {"flammable-gas", "gas-under-pressure"}
+    assert classes["flammable-gas"]["provenance"]["kind"] == "estimated"  # limits by Jones's correlation
+
+
+def test_gas_kept_below_its_boiling_point_is_refrigerated_liquefied(make_entries):
+    # nitrogen, CRC Tb 77.355 K, kept in a dewar store rated to 70 K: UN GHS ch. 2.5 refrigerated liquefied (H281)
+    from builder.derive.serialize import hazard_classes_json
+
+    text = ("name: Liquid nitrogen\nsmiles: 'N#N'\ncatalog:\n  max_store_temperature: 70 K\nproperties:\n"
+            "  boiling_point: {value: 77.355 K, source: crc-95}\n  melting_point: {value: 63.15 K, source: crc-95}\n")
+    catalog, diags = load_catalog(make_entries({"liquid-nitrogen.yaml": text}))
+    assert catalog is not None, diags
+    (d,) = derive_catalog(catalog)
+    assert d.label("physical_state").code == "gas" and d.label("physical_state_store").code == "liquid"
+    (cls,) = hazard_classes_json(d)
+    assert cls["category"] == "refrigerated liquefied" and cls["h_code"] == "H281"
+    assert "refrigerated-liquefied-gas" in {n.id for n in d.notes}

@@ -76,6 +76,17 @@ FACTS: dict[str, tuple[type, str]] = {
     "log_p": (float, "octanol-water partition coefficient, log10 [-]"),
     "vapor_hazard_ratio": (float, "saturated vapour concentration / OEL [-]"),
     "volatility_band": (str, "COSHH Essentials band: low, medium, high"),
+    "physical_state": (str, "most likely state at 20 degC, 101.325 kPa: gas, liquid or solid"),
+    "state_for_rules": (str, "the safer reading of the state at 20 degC (most mobile state allowed)"),
+    "store_state_for_rules": (str, "the safer reading of the state at the highest store temperature"),
+    "is_organic": (bool, "the structure contains carbon"),
+    "state_alternatives": (str, "every state the intervals allow at 20 degC, e.g. 'liquid or gas'"),
+    "state_clear": (bool, "one state only at 20 degC (the melting and boiling points are clear of it)"),
+    "gas_group": (str, "GHS ch. 2.5 group: compressed, 'liquefied, high pressure', 'liquefied, low pressure'"),
+    "declared_toxic_by_inhalation": (bool, "H330 or H331 declared"),
+    "declared_oxidising_gas": (bool, "H270 declared"),
+    "flammable_gas": (bool, "a flammable gas (category derived or H220/H221/H232 declared)"),
+    "process_temperature": (float, "process temperature [K]"),
 }
 """Fact name -> (type, description). Values are SI."""
 
@@ -358,6 +369,21 @@ def evaluate_rules(facts: dict[str, Any], rules: tuple[Rule, ...] | None = None,
     the module docstring). ``rules`` defaults to the packaged rules file.
     ``formats`` maps a text filter (``{flash_point|degC}``) to the function that
     writes the value; the caller's formatting wins over the plain default here.
+
+    Examples
+    --------
+    A one-rule file using the UN GHS Rev. 10 table 2.6.1 bound of 23 degC
+    (296.15 K); toluene's closed-cup flash point is 277.15 K, i.e. 4 degC
+    (IEC 60079-20-1 (2010) table, as shipped in ``chemicals`` 1.5.2):
+
+    >>> rules = validate_rules({"version": 1, "rules": [{
+    ...     "id": "low-flash-point", "when": {"field": "flash_point", "lt": 296.15},
+    ...     "text": "Flash point {flash_point|degC} degC, below 23 degC.",
+    ...     "severity": "high", "source": "UN GHS Rev. 10, table 2.6.1"}]})
+    >>> [note.text for note in evaluate_rules({"flash_point": 277.15}, rules)]
+    ['Flash point 4 degC, below 23 degC.']
+    >>> evaluate_rules({"flash_point": None}, rules)  # unknown never fires
+    []
     """
     check_facts(facts)
     if rules is None:

@@ -9,6 +9,7 @@ from __future__ import annotations
 from rdkit import Chem
 
 from builder.chem.boiling import estimate_boiling_point
+from builder.chem.boiling_small import small_domain, small_estimate
 from builder.core.diagnostics import Diagnostic
 from builder.core.model import Entry
 from builder.core.methods import method_for_estimator
@@ -25,6 +26,8 @@ def boiling_values(entry: Entry, mol: Chem.Mol | None) -> tuple[dict[str, Value]
     estimate = None
     if mol is not None:
         result = estimate_boiling_point(mol)
+        if result.value_K is None and small_domain(mol) == "OK":
+            result = small_estimate(mol)  # outside the organic model: noble gases, halogens, hydrides...
         if result.value_K is not None:
             note = None
             if result.interval90_K:

@@ -260,6 +260,13 @@ def validate(records: list[Record], model: TreeModel) -> dict[str, Any]:
         "joback_stein_brown": joback_stein_brown_estimate,
         "joback_sb_trees": lambda m: tree_estimate(m, model),
     }
+    return validate_rows(held, funcs, "joback_sb_trees")
+
+
+def validate_rows(held: list[Record], funcs: dict[str, Any], main_method: str) -> dict[str, Any]:
+    """Held-out accuracy by heavy-atom band of each estimator in ``funcs`` (name -> function of a
+    molecule returning an object with ``value_K`` and ``interval90_K``); the worst cases of
+    ``main_method`` are listed (shared with the melting-point fit)."""
     rows: dict[str, list[tuple[int, float | None, bool | None]]] = {k: [] for k in funcs}
     worst = []
     for record in held:
@@ -272,7 +279,7 @@ def validate(records: list[Record], model: TreeModel) -> dict[str, Any]:
             if est.interval90_K is not None:
                 inside = est.interval90_K[0] <= record.tb_K <= est.interval90_K[1]
             rows[name].append((band, err, inside))
-            if name == "joback_sb_trees" and err is not None:
+            if name == main_method and err is not None:
                 worst.append((-abs(err), record.cas, record.name, record.tb_K, est.value_K))
     methods = {}
     for name, items in rows.items():
@@ -290,7 +297,7 @@ def validate(records: list[Record], model: TreeModel) -> dict[str, Any]:
         "held_out": {"n": len(held), "rule": f"sha256(InChIKey[:14]) mod 100 < {HELD_OUT_PERCENT}"},
         "bands": "heavy atoms",
         "methods": methods,
-        "worst_joback_sb_trees": [
+        f"worst_{main_method}": [
             {"cas": c, "name": n, "measured_K": t, "estimate_K": v}
             for _, c, n, t, v in sorted(worst)[:15]
         ],

@@ -4,6 +4,8 @@ from __future__ import annotations
 
 import pytest
 import yaml
+from chemicals.environment import logP
+from chemicals.miscdata import CRC_organic_data
 
 from builder.chem import handling
 from builder.chem.handling import RulesError, evaluate_rules, load_rules, validate_rules
@@ -11,9 +13,14 @@ from builder.chem.handling import RulesError, evaluate_rules, load_rules, valida
 C = 273.15
 
 # Toluene facts: IEC flash point 277.15 K, Tb 383.75 K (chemicals), GHS cat 2,
-# M 92.14 g/mol -> 3.18 x air, density 867 kg/m3, logP 2.73 (from memory),
-# hydrocarbon held together by dispersion; a store assumed to reach 40 degC.
+# M 92.14 g/mol -> 3.18 x air; liquid density from the CRC Handbook organic table
+# (chemicals.miscdata.CRC_organic_data "rho", 862.3 kg/m3) and log P from
+# chemicals.environment.logP (CRC, 2.73); a hydrocarbon held together by
+# dispersion; a store assumed to reach 40 degC.
+# The liquid-only rules need the state: a liquid at 20 degC and in store (CRC Tm 178.2 K, Tb 383.75 K).
+LIQUID = {"physical_state": "liquid", "state_for_rules": "liquid", "store_state_for_rules": "liquid"}
 TOLUENE = {
+    **LIQUID,
     "flammable_category": 2,
     "flash_point": 277.15,
     "boiling_point": 383.75,
@@ -22,8 +29,8 @@ TOLUENE = {
     "vapor_density_ratio": 3.18,
     "dominant_force": "dispersion",
     "is_hydrocarbon": True,
-    "density": 867.0,
-    "log_p": 2.73,
+    "density": float(CRC_organic_data.loc["108-88-3", "rho"]),
+    "log_p": float(logP("108-88-3")),
 }
 
 
@@ -52,7 +59,7 @@ def test_toluene_notes_in_stable_order():
     assert "40 °C (assumed default)" in text["store-at-or-above-flash-point"]
     assert "flash point (4 °C)" in text["store-at-or-above-flash-point"]
     assert "3.18 times" in text["vapor-heavier-than-air"]
-    assert "867 kg/m³" in text["floats-on-water"]
+    assert f"{TOLUENE['density']:.3g} kg/m³" in text["floats-on-water"]  # 3 significant figures
     assert "Bond and earth" in text["static-accumulator"]
     assert evaluate_rules(TOLUENE) == notes  # deterministic
 
@@ -74,7 +81,7 @@ def test_not_of_unknown_stays_unknown():
 
 
 def test_pressure_build_up_margin():
-    base = {"store_max_temperature": 40.0 + C, "store_max_temperature_basis": "stated"}
+    base = {**LIQUID, "store_max_temperature": 40.0 + C, "store_max_temperature_basis": "stated"}
     # Diethyl ether, bp 34.6 degC: below the store maximum.
     assert "pressure-build-up" in ids({**base, "boiling_point": 34.6 + C})
     # Within the 5 K margin, and just outside it.
@@ -85,30 +92,37 @@ def test_pressure_build_up_margin():
 
 
 def test_flammable_categories():
-    assert ids({"flammable_category": 1}) == ["flammable-storage-high"]
-    assert ids({"flammable_category": 3}) == ["flammable-storage"]
-    assert ids({"flammable_category": 4}) == []
+    assert ids({**LIQUID, "flammable_category": 1}) == ["flammable-storage-high"]
+    assert ids({**LIQUID, "flammable_category": 3}) == ["flammable-storage"]
+    assert ids({**LIQUID, "flammable_category": 4}) == []
+    # the state unknown: no liquid note (three-valued logic)
+    assert ids({"flammable_category": 1}) == []
 
 
 def test_static_rule_needs_hydrocarbon_or_low_conductivity():
     for force in ("dispersion", "hydrogen-bonding"):
-        assert "static-accumulator" not in ids({"dominant_force": force, "is_hydrocarbon": False})
+        assert "static-accumulator" not in ids({**LIQUID, "dominant_force": force, "is_hydrocarbon": False})
     # IEC TS 60079-32-1: <= 50 pS/m is an accumulator.
-    assert "static-accumulator" in ids({"electrical_conductivity": 50e-12})
-    assert "static-accumulator" not in ids({"electrical_conductivity": 1e-6})
+    assert "static-accumulator" in ids({**LIQUID, "electrical_conductivity": 50e-12})
+    assert "static-accumulator" not in ids({**LIQUID, "electrical_conductivity": 1e-6})
     # Hydrocarbon with unknown force: unknown, so no note.
-    assert "static-accumulator" not in ids({"is_hydrocarbon": True})
+    assert "static-accumulator" not in ids({**LIQUID, "is_hydrocarbon": True})
+    # a liquid-only note: never for a gas or a solid (naphthalene, CRC Tm 353.4 K, is a solid hydrocarbon)
+    for state in ("gas", "solid"):
+        facts = {"state_for_rules": state, "dominant_force": "dispersion", "is_hydrocarbon": True}
+        assert "static-accumulator" not in ids(facts)
 
 
 def test_floats_on_water():
-    assert "floats-on-water" in ids({"density": 790.0, "water_miscible": False})
-    assert "floats-on-water" not in ids({"density": 789.0, "water_miscible": True})  # ethanol
-    assert "floats-on-water" not in ids({"density": 1330.0, "log_p": 1.25})  # dichloromethane
-    assert "floats-on-water" not in ids({"density": 790.0})  # miscibility unknown
+    assert "floats-on-water" in ids({**LIQUID, "density": 790.0, "water_miscible": False})
+    assert "floats-on-water" not in ids({**LIQUID, "density": 789.0, "water_miscible": True})  # ethanol
+    assert "floats-on-water" not in ids({**LIQUID, "density": 1330.0, "log_p": 1.25})  # dichloromethane
+    assert "floats-on-water" not in ids({**LIQUID, "density": 790.0})  # miscibility unknown
+    assert "floats-on-water" not in ids({"state_for_rules": "solid", "density": 940.0, "log_p": 8.2})
 
 
 def test_large_numbers_render_readably():
-    notes = evaluate_rules({"vapor_hazard_ratio": 1869.7})
+    notes = evaluate_rules({**LIQUID, "vapor_hazard_ratio": 1869.7})
     assert "about 1,870 times" in notes[0].text
 
 
@@ -168,3 +182,53 @@ def test_no_code_execution_from_rules(tmp_path):
     path.write_text(text, encoding="utf-8")
     with pytest.raises(RulesError, match="not valid YAML"):
         load_rules(path)
+
+
+# --- rules by physical state (issue 11) -------------------------------------------------------
+GAS = {"physical_state": "gas", "state_for_rules": "gas", "store_state_for_rules": "gas",
+       "flammable_gas": False, "declared_toxic_by_inhalation": False, "declared_oxidising_gas": False}
+
+
+def test_vapour_notes_by_state():
+    # vapour heavier than air: a liquid's vapour, a gas's leak; never a solid's (common practice)
+    assert "vapor-heavier-than-air" in ids({**LIQUID, "vapor_density_ratio": 3.18})
+    assert ids({**GAS, "vapor_density_ratio": 1.52}).count("gas-heavier-than-air") == 1  # propane, M 44.1
+    assert "vapor-heavier-than-air" not in ids({**GAS, "vapor_density_ratio": 1.52})
+    assert not {"vapor-heavier-than-air", "gas-heavier-than-air"} & set(
+        ids({"state_for_rules": "solid", "vapor_density_ratio": 4.4}))  # naphthalene
+
+
+def test_cylinder_notes():
+    # nitrogen (inert, CRC Tb 77.4 K, Tc 126.2 K: compressed per GHS ch. 2.5)
+    got = ids({**GAS, "gas_group": "compressed"})
+    assert got[:1] == ["gas-cylinder"] and "gas-displaces-oxygen" in got and "compressed-gas" in got
+    assert "liquefied-gas" not in got
+    # propane (H220 declared; Tc 369.9 K: liquefied, low pressure)
+    got = ids({**GAS, "flammable_gas": True, "gas_group": "liquefied, low pressure"})
+    assert {"gas-cylinder", "flammable-gas", "liquefied-gas"} <= set(got) and "gas-displaces-oxygen" not in got
+    # chlorine (H330 declared): the toxic-gas note, not the inert one
+    got = ids({**GAS, "declared_toxic_by_inhalation": True, "gas_group": "liquefied, low pressure"})
+    assert "toxic-gas" in got and "gas-displaces-oxygen" not in got
+    assert "gas-cylinder" not in ids({**LIQUID})
+
+
+def test_solid_dust_note():
+    assert "combustible-dust" in ids({"state_for_rules": "solid", "is_organic": True})  # stearic acid
+    assert "combustible-dust" not in ids({"state_for_rules": "solid", "is_organic": False})  # sodium chloride
+    assert "combustible-dust" not in ids({**LIQUID, "is_organic": True})
+
+
+def test_process_temperature_near_flash_point():
+    # 2-butoxyethanol: IEC 60079-20-1 flash point 61 degC (from the demo entry), run at 60 degC
+    facts = {**LIQUID, "flash_point": 61.0 + C, "process_temperature": 60.0 + C}
+    (note,) = [n for n in evaluate_rules(facts) if n.id == "process-at-or-above-flash-point"]
+    assert "60 °C" in note.text and "(61 °C)" in note.text
+    assert "process-at-or-above-flash-point" not in ids({**facts, "process_temperature": 55.0 + C})
+    assert "process-at-or-above-flash-point" not in ids({**facts, "state_for_rules": "solid"})
+
+
+
+def test_refrigerated_liquefied_gas_note():
+    # liquid nitrogen in a dewar: CRC Tb 77.4 K, the store kept below it (UN GHS Rev. 10 ch. 2.5)
+    got = ids({**GAS, "store_state_for_rules": "liquid", "gas_group": "refrigerated liquefied"})
+    assert "refrigerated-liquefied-gas" in got and "liquefied-gas" not in got and "compressed-gas" not in got
