@@ -4,11 +4,12 @@ as compiled from PubChem)."""
 from __future__ import annotations
 
 import pytest
+from chemicals import (
+    identifiers,  # pinned test dependency: import plainly so absence fails
+)
 
 from builder.chem.identity import depict_svg, identify, parse_smiles
 from builder.load.cas import cas_problem
-
-identifiers = pytest.importorskip("chemicals.identifiers")
 
 CAS_NUMBERS = [
     "64-17-5", "67-56-1", "71-23-8", "71-36-3", "67-63-0", "67-64-1", "78-93-3", "108-88-3", "106-42-3",
@@ -56,3 +57,12 @@ def test_depiction_is_deterministic_svg():
     first = depict_svg.__wrapped__("Cc1ccccc1")
     second = depict_svg.__wrapped__("Cc1ccccc1")
     assert first == second and first.lstrip().startswith("<?xml") and "<svg" in first
+
+
+def test_structure_drawings_are_black():
+    # shelf cards and sheets print in black: no atom colour (O red, N blue, Cl green) in the drawing
+    import re
+
+    svg = depict_svg.__wrapped__("OCC(Cl)N")
+    colours = {c.upper() for c in re.findall(r"#[0-9A-Fa-f]{6}\b", svg)}
+    assert colours <= {"#000000", "#FFFFFF"}, colours

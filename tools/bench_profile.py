@@ -24,6 +24,7 @@ from __future__ import annotations
 
 import argparse
 import functools
+import math
 import statistics
 import sys
 import time
@@ -107,6 +108,7 @@ def dipole_figures(rows, charges: str) -> dict[str, float]:
     return {
         "n": len(errors), "no_value": no_value, "agreement_pct": 100.0 * agree / len(errors),
         "mae_D": statistics.mean(errors), "median_abs_err_D": statistics.median(errors),
+        "rms_D": math.sqrt(statistics.mean(e * e for e in errors)),
         "misses": misses,
     }
 
@@ -145,7 +147,7 @@ def main(argv: list[str] | None = None) -> int:
         figures = dipole_figures(rows, charges)
         print(f"dipole ({charges}): n={figures['n']} (no value for {figures['no_value']}), "
               f"polar/non-polar agreement {figures['agreement_pct']:.1f} %, "
-              f"MAE {figures['mae_D']:.2f} D, median |error| {figures['median_abs_err_D']:.2f} D")
+              f"MAE {figures['mae_D']:.2f} D, RMS {figures['rms_D']:.2f} D, median |error| {figures['median_abs_err_D']:.2f} D")
         if args.misses:
             for line in figures["misses"]:
                 print("   ", line)

@@ -321,7 +321,9 @@ def tree_estimate(mol_or_smiles: Chem.Mol | str, model: TreeModel | None = None)
     Error on the held-out 20 % of CRC Handbook data: MAE about 10.7 K,
     median 5.3 K (table by size band in ``boiling_validation.json``).
     The standard uncertainty is the RMS and the 90 % half-width the 90th
-    percentile of out-of-fold training residuals in the heavy-atom band.
+    percentile of out-of-fold training residuals in the heavy-atom band,
+    widened where the bands understate the error (1-3 heavy atoms, C1-C2
+    with fluorine: ``TAIL_UNCERTAINTY_K``).
     References: Joback & Reid (1987), Stein & Brown (1994), Friedman (2001);
     see the module docstring.
     """
@@ -335,9 +337,37 @@ def tree_estimate(mol_or_smiles: Chem.Mol | str, model: TreeModel | None = None)
     base = x[len(JOBACK_TB) + DESCRIPTORS.index("joback_sb_K")]
     value = round(base + model.residual(x), 3)
     band = model.band(mol.GetNumHeavyAtoms())
-    half = band["half_width90_K"]
+    u, half = band["standard_uncertainty_K"], band["half_width90_K"]
+    tail = tail_uncertainty(mol)
+    if tail is not None and tail > u:
+        u, half = tail, round(K90 * tail, 1)
     interval = (round(value - half, 3), round(value + half, 3))
-    return TbEstimate(value, band["standard_uncertainty_K"], method, REFERENCES[method], "OK", interval)
+    return TbEstimate(value, u, method, REFERENCES[method], "OK", interval)
+
+
+K90 = 1.645
+"""Coverage factor of a two-sided 90 % interval of a normal error."""
+
+TAIL_UNCERTAINTY_K = {"1-2 heavy atoms": 67.0, "3 heavy atoms": 32.0, "fluorinated C1-C2": 33.0}
+"""Standard uncertainties where the size bands understate the error (measured on the CRC
+Handbook organic boiling points with the shipped model; all rows, because the held-out
+subsets hold only a few compounds): 1-2 heavy atoms, 12 compounds, largest residual
+methane +109 K, so 109/1.645 = 66.3 K, rounded up to 67 K, makes the 90 % interval reach it; 3 heavy atoms, RMS
+residual 32 K over 51; C1-C2 with fluorine, held-out RMS 33 K over 27 (all rows 26 K)."""
+
+
+def tail_uncertainty(mol: Chem.Mol) -> float | None:
+    """The wider standard uncertainty [K] of the model's weak small-molecule tail, or None."""
+    n = mol.GetNumHeavyAtoms()
+    carbons = sum(1 for a in mol.GetAtoms() if a.GetAtomicNum() == 6)
+    fluorines = sum(1 for a in mol.GetAtoms() if a.GetAtomicNum() == 9)
+    if n <= 2:
+        return TAIL_UNCERTAINTY_K["1-2 heavy atoms"]
+    if carbons <= 2 and fluorines:
+        return TAIL_UNCERTAINTY_K["fluorinated C1-C2"]
+    if n == 3:
+        return TAIL_UNCERTAINTY_K["3 heavy atoms"]
+    return None
 
 
 _DISPATCH = {
@@ -351,6 +381,16 @@ def estimate_boiling_point(mol_or_smiles: Chem.Mol | str, method: str | None = N
     """Estimate the normal boiling point [K] of a molecule or SMILES string.
 
     ``method`` is one of ``BOILING_METHODS`` (default: the first).
+
+    Examples
+    --------
+    n-Hexane, measured 341.87 K (CRC Handbook, as shipped in ``chemicals`` 1.5.2):
+    the measured value lies inside the estimate's 90 % interval.
+
+    >>> est = estimate_boiling_point("CCCCCC")
+    >>> low, high = est.interval90_K
+    >>> low <= 341.87 <= high
+    True
     """
     method = method or BOILING_METHODS[0]
     if method not in _DISPATCH:

@@ -37,7 +37,13 @@ _IONIC_BOND_EN = 1.7  # common practice: above this a bond is mostly ionic
 
 
 def hbond_donors(mol: Chem.Mol) -> int:
-    """Count hydrogens bonded to N, O or F (exact, own SMARTS)."""
+    """Count hydrogens bonded to N, O or F (exact, own SMARTS).
+
+    Acetic acid has one O-H donor; water two (common practice):
+
+    >>> hbond_donors(Chem.MolFromSmiles("CC(=O)O")), hbond_donors(Chem.MolFromSmiles("O"))
+    (1, 2)
+    """
     return sum(mol.GetAtomWithIdx(m[0]).GetTotalNumHs() for m in mol.GetSubstructMatches(_DONOR))
 
 
@@ -47,6 +53,12 @@ def hbond_acceptors(mol: Chem.Mol) -> int:
     Every neutral or anionic O and F counts. N counts unless its lone pair is part of
     an aromatic ring (pyrrole-type) or delocalised into C=O, C=S or SO2 (amides,
     thioamides, sulfonamides); cationic N (ammonium, nitro) has none.
+
+    Acetic acid: both oxygens accept; pyrrole's ring N does not; pyridine's does
+    (common practice):
+
+    >>> [hbond_acceptors(Chem.MolFromSmiles(s)) for s in ("CC(=O)O", "c1cc[nH]c1", "c1ccncc1")]
+    [2, 0, 1]
     """
     return sum(len(mol.GetSubstructMatches(q)) for q in _ACCEPTORS.values())
 

@@ -51,7 +51,20 @@ def _ring_systems(mol: Chem.Mol) -> int:
 
 
 def vapor_structure(mol: Chem.Mol) -> VaporStructure | None:
-    """The counts for a neutral, single-fragment organic molecule; None outside that domain."""
+    """The counts for a neutral, single-fragment organic molecule; None outside that domain.
+
+    Hand counts from the published definitions (Myrdal & Yalkowsky 1997): n-hexane has
+    four non-terminal sp3 chain carbons and no ring, so tau = 4 - 1 = 3; 1-butanol has
+    one OH, so HBN = sqrt(1) / M with M = 74.12 g/mol (CRC Handbook), i.e. 0.01349.
+
+    >>> s = vapor_structure(Chem.MolFromSmiles("CCCCCC"))
+    >>> s.tau, s.hbn, s.n_carbon
+    (3.0, 0.0, 6)
+    >>> abs(vapor_structure(Chem.MolFromSmiles("CCCCO")).hbn - 1 / 74.12) < 1e-4
+    True
+    >>> vapor_structure(Chem.MolFromSmiles("[Na+].[Cl-]")) is None
+    True
+    """
     if any(a.GetAtomicNum() not in ORGANIC_ELEMENTS for a in mol.GetAtoms()):
         return None
     n_carbon = sum(1 for a in mol.GetAtoms() if a.GetAtomicNum() == 6)

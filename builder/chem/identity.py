@@ -112,7 +112,17 @@ class Identity:
 
 @lru_cache(maxsize=4096)
 def identify(smiles: str) -> Identity:
-    """Identity of ``smiles``; raises ``ValueError`` with RDKit's reason when it does not parse."""
+    """Identity of ``smiles``; raises ``ValueError`` with RDKit's reason when it does not parse.
+
+    Ethanol: formula C2H6O and molar mass 46.068 g/mol (CRC Handbook, as shipped
+    in ``chemicals`` 1.5.2); 26 electrons (6 + 6 + 8 + 6 x 1):
+
+    >>> ethanol = identify("OCC")
+    >>> ethanol.formula, ethanol.electron_count, ethanol.smiles
+    ('C2H6O', 26, 'CCO')
+    >>> abs(ethanol.molar_mass - 46.068) < 0.01
+    True
+    """
     mol, reason = parse_smiles(smiles)
     if mol is None:
         raise ValueError(reason)
@@ -136,7 +146,12 @@ _FORMULA_CHARGE = re.compile(r"([+-])(\d*)$")
 
 
 def formula_counts(formula: str) -> tuple[Counter, int]:
-    """Element counts and net charge of a formula such as ``C2H6O`` or ``C2H3O2-``."""
+    """Element counts and net charge of a formula such as ``C2H6O`` or ``C2H3O2-``.
+
+    >>> counts, charge = formula_counts("C2H3O2-")  # acetate anion
+    >>> sorted(counts.items()), charge
+    ([('C', 2), ('H', 3), ('O', 2)], -1)
+    """
     charge = 0
     match = _FORMULA_CHARGE.search(formula)
     if match:
@@ -149,9 +164,16 @@ def formula_counts(formula: str) -> tuple[Counter, int]:
 
 
 
+#: fill of atoms and bonds a hazard alert matched (a light amber that stays visible in greyscale print)
+HIGHLIGHT_COLOUR = (1.0, 0.78, 0.35)
+
+
 @lru_cache(maxsize=1024)
-def depict_svg(smiles: str, size: int = 260) -> str:
-    """A deterministic SVG drawing (same SMILES and RDKit version, same bytes)."""
+def depict_svg(smiles: str, size: int = 260, highlight: tuple[int, ...] = ()) -> str:
+    """A deterministic SVG drawing (same SMILES, highlight and RDKit version, same bytes).
+
+    ``highlight``: atom indices of ``smiles`` as parsed (the alerts' ``atoms``) to shade, with the
+    bonds between them."""
     mol, reason = parse_smiles(smiles)
     if mol is None:
         raise ValueError(reason)
@@ -161,6 +183,17 @@ def depict_svg(smiles: str, size: int = 260) -> str:
     options.addStereoAnnotation = True
     options.fixedBondLength = 28
     options.bondLineWidth = 1.5
-    rdMolDraw2D.PrepareAndDrawMolecule(drawer, mol)
+    options.useBWAtomPalette()  # atoms in black, told apart by their letters: cards and sheets print in black
+    atoms = sorted({i for i in highlight if 0 <= i < mol.GetNumAtoms()})
+    if atoms:
+        marked = set(atoms)
+        bonds = sorted(b.GetIdx() for b in mol.GetBonds()
+                       if b.GetBeginAtomIdx() in marked and b.GetEndAtomIdx() in marked)
+        rdMolDraw2D.PrepareAndDrawMolecule(
+            drawer, mol, highlightAtoms=atoms, highlightBonds=bonds,
+            highlightAtomColors={i: HIGHLIGHT_COLOUR for i in atoms},
+            highlightBondColors={i: HIGHLIGHT_COLOUR for i in bonds})
+    else:
+        rdMolDraw2D.PrepareAndDrawMolecule(drawer, mol)
     drawer.FinishDrawing()
     return drawer.GetDrawingText()

@@ -202,6 +202,14 @@ def too_large_for_3d(mol: Chem.Mol) -> str | None:
 def canonical_smiles(mol_or_smiles: str | Chem.Mol) -> str:
     """Return the canonical isomeric SMILES of a SMILES string or Mol.
 
+    Two spellings of ethanol give one key; stereo is kept (trans-1,2-dichloroethene
+    stays apart from the unspecified isomer):
+
+    >>> canonical_smiles("OCC") == canonical_smiles("C(O)C")
+    True
+    >>> canonical_smiles("Cl/C=C/Cl"), canonical_smiles("ClC=CCl")
+    ('Cl/C=C/Cl', 'ClC=CCl')
+
     Raises
     ------
     ValueError
@@ -223,6 +231,12 @@ def count_torsions(mol: Chem.Mol) -> int:
     the hydrogen-suppressed graph, or an O-H / N-H / S-H rotor), and neither may be
     sp (triple bonded). Bonds to CH3 or CX3 tops are not counted: their rotation
     moves only symmetry-equivalent atoms.
+
+    n-Butane has one conformational torsion (the central C-C: anti and gauche);
+    n-hexane three; ethane none (common practice):
+
+    >>> [count_torsions(Chem.MolFromSmiles(s)) for s in ("CC", "CCCC", "CCCCCC")]
+    [0, 1, 3]
     """
     heavy = Chem.RemoveHs(mol)
     tops = {m[0] for top in _SYMMETRIC_TOPS for m in heavy.GetSubstructMatches(top)}

@@ -9,6 +9,7 @@ from __future__ import annotations
 
 from functools import lru_cache
 
+import chemicals  # noqa: F401  pinned test dependency: its absence must fail, not skip
 import pytest
 
 from builder.chem.boiling import (
@@ -17,8 +18,6 @@ from builder.chem.boiling import (
     estimate_boiling_point,
     load_model,
 )
-
-pytest.importorskip("chemicals")
 
 
 @lru_cache(maxsize=1)
@@ -43,8 +42,38 @@ def test_held_out_accuracy():
     assert abs(ours["bias_K"]) <= 4.0
 
 
-def test_estimates_cover_the_dataset():
-    assert validation()["methods"]["joback_sb_trees"]["all"]["coverage"] >= 0.99
+# The intended domain, written out here rather than taken from boiling.check_structure
+# (which also filters the training data, so coverage of that data is 1 by construction):
+# organic (carbon-containing) single-fragment molecules of these elements.
+INTENDED_ELEMENTS = {"C", "H", "N", "O", "S", "F", "Cl", "Br", "I"}
+
+
+@pytest.mark.slow
+def test_estimates_cover_the_crc_table():
+    """Every CRC Handbook row (chemicals 1.5.2, Tb_sources["CRC_ORG"]) whose structure
+    (chemicals.identifiers) parses into one fragment of the intended elements must get a
+    value, bar at most 1 % (charged or otherwise odd structures); about 30 s."""
+    from chemicals.identifiers import search_chemical
+    from chemicals.phase_change import Tb_sources
+    from rdkit import Chem, RDLogger
+
+    RDLogger.DisableLog("rdApp.*")
+    in_domain = covered = 0
+    for cas in Tb_sources["CRC_ORG"].dropna(subset=["Tb"]).index:
+        try:
+            smiles = search_chemical(cas).smiles
+        except ValueError:
+            continue
+        mol = Chem.MolFromSmiles(smiles) if smiles else None
+        if mol is None or len(Chem.GetMolFrags(mol)) != 1:
+            continue
+        elements = {atom.GetSymbol() for atom in mol.GetAtoms()}
+        if "C" not in elements or not elements <= INTENDED_ELEMENTS:
+            continue
+        in_domain += 1
+        covered += estimate_boiling_point(mol).value_K is not None
+    assert in_domain > 4000
+    assert covered / in_domain >= 0.99, (covered, in_domain)
 
 
 def test_no_size_band_worse_than_stein_brown():
@@ -54,11 +83,37 @@ def test_no_size_band_worse_than_stein_brown():
 
 
 def test_published_methods_reproduce_expected_error():
-    # Measured starting points in the project's methods notes: Joback about
-    # 27 K, Joback + Stein-Brown correction about 19 K on this split.
+    """Joback's error on the held-out CRC rows, against two outside references:
+
+    - thermo 0.6.1's independent Joback implementation on the same rows must give the
+      same mean absolute error (within 0.5 K);
+    - Joback & Reid (1987) report an average absolute error of 12.91 K over 438
+      compounds (as quoted in the docstring of thermo's ``Joback.Tb``). Those were the
+      compounds the increments were fitted to, so on other compounds the error is
+      expected to be larger (common practice); Stein & Brown (1994) introduced their
+      correction because Joback's sum errs increasingly for larger molecules, so the
+      corrected sum must do better than the plain one.
+    """
+    import statistics
+
+    import thermo.group_contribution.joback as thermo_joback
+    from rdkit import Chem
+
+    from builder.fitting.boiling import load_records
+
     methods = validation()["methods"]
-    assert 22.0 < methods["joback"]["all"]["mae_K"] < 32.0
-    assert 15.0 < methods["joback_stein_brown"]["all"]["mae_K"] < 23.0
+    ours = methods["joback"]["all"]["mae_K"]
+    errors = []
+    for record in load_records():
+        if not record.held_out:
+            continue
+        reference = thermo_joback.Joback(Chem.MolFromSmiles(record.smiles))
+        if reference.status == "OK":
+            errors.append(abs(reference.Tb(reference.counts) - record.tb_K))
+    assert len(errors) >= 0.9 * methods["joback"]["all"]["n_estimated"]
+    assert ours == pytest.approx(statistics.fmean(errors), abs=0.5)
+    assert ours > 12.91
+    assert methods["joback_stein_brown"]["all"]["mae_K"] < ours
 
 
 def test_interval90_covers_85_to_95_percent():

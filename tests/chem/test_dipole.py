@@ -7,6 +7,7 @@ see conftest.py); the debye definition (CODATA); point-group facts of the trade
 
 from __future__ import annotations
 
+import math
 import statistics
 
 import numpy as np
@@ -15,7 +16,7 @@ import pytest
 from builder.chem.dipole import (
     METHOD_GASTEIGER,
     METHOD_MMFF,
-    MMFF_MAE_D,
+    MMFF_STANDARD_UNCERTAINTY_D,
     POLAR_THRESHOLD_D,
     dipole_moment,
     point_charge_dipole,
@@ -42,26 +43,40 @@ def test_point_charge_dipole_of_neutral_set_does_not_depend_on_origin():
     )
 
 
-@pytest.mark.slow
-def test_reference_set_agreement_and_error(reference_rows):
-    """Full reference set (about 550 molecules, about 20 s on one core).
-
-    Measured with RDKit 2026.09.1: 96.8 % agreement, MAE 0.57 D over 532 molecules;
-    the bounds leave room for RDKit-version drift of the embedding.
-    """
-    rows = reference_rows
-    assert len(rows) > 500
+@pytest.fixture(scope="module")
+def reference_comparison(reference_rows):
+    """(number of rows, absolute errors [D], polar/non-polar agreements) over the set."""
     errors, agree = [], 0
-    for row in rows:
+    for row in reference_rows:
         estimate = dipole_moment(row.smiles)
         if estimate.value_D is None:
             continue
         errors.append(abs(estimate.value_D - row.dipole_D))
         agree += (estimate.value_D > POLAR_THRESHOLD_D) == (row.dipole_D > POLAR_THRESHOLD_D)
-    assert len(errors) >= 0.95 * len(rows)
+    return len(reference_rows), errors, agree
+
+
+@pytest.mark.slow
+def test_reference_set_agreement_and_error(reference_comparison):
+    """Full reference set (about 550 molecules, about 20 s on one core).
+
+    Measured with RDKit 2026.09.1: 96.8 % agreement, MAE 0.57 D over 532 molecules;
+    the bounds leave room for RDKit-version drift of the embedding.
+    """
+    n_rows, errors, agree = reference_comparison
+    assert n_rows > 500
+    assert len(errors) >= 0.95 * n_rows
     assert agree / len(errors) >= 0.95
     assert statistics.mean(errors) <= 0.65
-    assert statistics.mean(errors) == pytest.approx(MMFF_MAE_D, abs=0.08)
+
+
+@pytest.mark.slow
+def test_reference_set_rms_error_within_stated_standard_uncertainty(reference_comparison):
+    # The estimate's own stated standard uncertainty must hold up: the root-mean-square
+    # error against the CCCBDB/Muller/Poling references may not exceed it.
+    _, errors, _ = reference_comparison
+    rms = math.sqrt(statistics.mean(e * e for e in errors))
+    assert rms <= MMFF_STANDARD_UNCERTAINTY_D, (rms, MMFF_STANDARD_UNCERTAINTY_D)
 
 
 @pytest.mark.parametrize(
@@ -74,17 +89,56 @@ def test_symmetric_molecules_have_no_dipole(smiles):
     assert dipole_moment(smiles).value_D < 0.1
 
 
+# Outside tolerance for a single molecule: within 0.6 D or within 35 % of the reference
+# moment in ``chemicals.dipole`` (CCCBDB), whichever is wider. It is independent of the
+# program's own uncertainty, which is derived from the program's error on the same set.
+DIPOLE_ABS_TOL_D = 0.6
+DIPOLE_REL_TOL = 0.35
+
+_OVERESTIMATE = pytest.mark.xfail(strict=True, reason="dipole overestimate, open issue #18")
+
+
 @pytest.mark.parametrize(
     ("smiles", "cas"),
-    [("Cl/C=C\\Cl", "156-59-2"), ("Clc1ccccc1", "108-90-7"), ("ClC(Cl)Cl", "67-66-3"),
-     ("CC(C)=O", "67-64-1"), ("O", "7732-18-5")],
+    [
+        pytest.param("Cl/C=C\\Cl", "156-59-2", marks=_OVERESTIMATE, id="cis-1,2-dichloroethene"),
+        pytest.param("ClC(Cl)Cl", "67-66-3", marks=_OVERESTIMATE, id="chloroform"),
+        pytest.param("ClCCl", "75-09-2", marks=_OVERESTIMATE, id="dichloromethane"),
+        pytest.param("CCO", "64-17-5", marks=_OVERESTIMATE, id="ethanol"),
+        pytest.param("CCOCC", "60-29-7", marks=_OVERESTIMATE, id="diethyl-ether"),
+        pytest.param("Clc1ccccc1", "108-90-7", id="chlorobenzene"),
+        pytest.param("CC(C)=O", "67-64-1", id="acetone"),
+        pytest.param("O", "7732-18-5", id="water"),
+        pytest.param("CO", "67-56-1", id="methanol"),
+        pytest.param("CC#N", "75-05-8", id="acetonitrile"),
+        pytest.param("c1ccncc1", "110-86-1", id="pyridine"),
+        pytest.param("CC(=O)OCC", "141-78-6", id="ethyl-acetate"),
+        pytest.param("CF", "593-53-3", id="fluoromethane"),
+        pytest.param("CBr", "74-83-9", id="bromomethane"),
+        pytest.param("CI", "74-88-4", id="iodomethane"),
+        pytest.param("CN(C)C=O", "68-12-2", id="dimethylformamide"),
+    ],
 )
 def test_polar_molecules_match_reference_within_stated_error(smiles, cas):
     from chemicals.dipole import dipole_moment as reference
 
+    expected = reference(cas)  # CCCBDB value as bundled in chemicals 1.5.2
     estimate = dipole_moment(smiles)
     assert estimate.polar
-    assert abs(estimate.value_D - reference(cas)) < 3 * estimate.uncertainty_D
+    assert estimate.value_D == pytest.approx(expected, abs=DIPOLE_ABS_TOL_D, rel=DIPOLE_REL_TOL)
+
+
+def test_estimates_keep_the_reference_order_of_polar_molecules():
+    # Reference moments from chemicals.dipole (CCCBDB): acetonitrile 3.92 > acetone 2.88
+    # > pyridine 2.19 > chlorobenzene 1.69 > toluene 0.33 D; the estimates must rank alike.
+    from chemicals.dipole import dipole_moment as reference
+
+    molecules = [("CC#N", "75-05-8"), ("CC(C)=O", "67-64-1"), ("c1ccncc1", "110-86-1"),
+                 ("Clc1ccccc1", "108-90-7"), ("Cc1ccccc1", "108-88-3")]
+    references = [reference(cas) for _, cas in molecules]
+    assert references == sorted(references, reverse=True)  # the list is written in that order
+    estimates = [dipole_moment(smiles).value_D for smiles, _ in molecules]
+    assert estimates == sorted(estimates, reverse=True), estimates
 
 
 def test_stereo_in_smiles_is_respected():

@@ -31,6 +31,8 @@ def test_vapor_hazard_ratio():
 
 
 @pytest.mark.parametrize("molar_mass, expected", [
+    # Air: 28.9586 g/mol, molar mass of dry air (Lemmon, E. W.; Jacobsen, R. T.;
+    # Penoncello, S. G.; Friend, D. G. J. Phys. Chem. Ref. Data 2000, 29, 331-385).
     (0.09214, 3.1818),  # toluene 92.14 / 28.9586
     (0.05808, 2.0056),  # acetone
     (0.016043, 0.5540),  # methane: lighter than air
