@@ -105,6 +105,11 @@ def cmd_build(args) -> int:
     return EXIT_OK
 
 
+def _count(n: int, noun: str, plural: str | None = None) -> str:
+    """'1 entry', '2 entries', '0 warnings'."""
+    return f"{n} {noun if n == 1 else plural or noun + 's'}"
+
+
 def cmd_check(args) -> int:
     from builder.derive.catalog import derive_catalog
     from builder.load.entries import load_catalog
@@ -125,8 +130,8 @@ def cmd_check(args) -> int:
     _print_diagnostics(diagnostics)
     n_err = len(errors(diagnostics))
     n_warn = len(diagnostics) - n_err
-    checked = len(catalog.entries) if catalog else "the"
-    print(f"cohesion check: {checked} entries, {n_err} errors, {n_warn} warnings", file=sys.stderr)
+    checked = _count(len(catalog.entries), "entry", "entries") if catalog else "the entries"
+    print(f"cohesion check: {checked}, {_count(n_err, 'error')}, {_count(n_warn, 'warning')}", file=sys.stderr)
     if n_err or (args.strict and n_warn):
         return EXIT_ENTRIES
     return EXIT_OK
@@ -303,6 +308,7 @@ def _shown(text: str) -> str:
 
 
 def _print_profile_text(result: dict) -> None:
+    from builder.core.methods import plain_name
     from builder.core.units import format_value
     from builder.derive.fire import NOTES_DISCLAIMER
 
@@ -313,8 +319,11 @@ def _print_profile_text(result: dict) -> None:
     forces = result.get("forces", {})
     for label, val in _profile_rows(result, forces):
         prov = val["provenance"]
-        ref = prov.get("source") or prov.get("method")
-        shown = format_value(val["value"], val["unit"].replace("^", "**"), val.get("uncertainty"))
+        ref = prov.get("source") or plain_name(prov.get("method"))  # the JSON output keeps the method id
+        if "unit" in val:
+            shown = format_value(val["value"], val["unit"].replace("^", "**"), val.get("uncertainty"))
+        else:  # a classification in words (a label), shown as its text
+            shown = val.get("text") or str(val["value"])
         print(f"  {label:<46} {shown}  [{prov['kind']}: {ref}]")
     for key, why in forces.get("not_computed", {}).items():
         print(f"  {key:<34} {why}")
@@ -327,9 +336,20 @@ def _print_profile_text(result: dict) -> None:
     if "flammable_category" in result:
         basis = result.get("flammable_category_basis", {})
         print(f"  flammable category: {basis.get('text', 'not a flammable liquid (no flash point)')}")
+    for cls in result.get("hazard_classes", []):
+        if cls["class"] != "flammable-liquid":  # printed just above
+            print(f"  {cls['class'].replace('-', ' ')}: {cls['text']} [{cls['provenance']['kind']}]")
+    if "boiling_point_missing" in result:
+        print(f"  {result['boiling_point_missing']['text']}")
     for note in result.get("handling_notes", []):
         print(f"  [{note['severity']}] {note['text']} ({note['id']}; {note['source']})")
-    if result.get("handling_notes"):
+    group = result.get("storage_group")
+    if group:
+        print(f"  storage group: {group['text']} ({group['provenance'].get('note', '')})")
+    for alert in result.get("hazard_alerts", []):
+        atoms = f"; atoms {', '.join(map(str, alert['atoms']))}" if alert["atoms"] else ""
+        print(f"  alert [{alert['severity']}] {alert['family']}: {alert['text']} ({alert['id']}; {alert['source']}{atoms})")
+    if result.get("handling_notes") or result.get("hazard_alerts"):
         print(f"  {NOTES_DISCLAIMER}")
     print()
 

@@ -99,12 +99,14 @@ def test_table_sorts_and_filters(page, root):
     pg.goto(root + "index.html")
     rows = pg.locator("#materials tbody tr")
     total = rows.count()
-    # sort by boiling point, ascending: the first row boils lowest
-    pg.locator("#materials thead th:nth-child(6) button").click()
-    first = rows.first.locator("td").nth(5).get_attribute("data-sort")
-    last = rows.nth(total - 1).locator("td").nth(5).get_attribute("data-sort")
-    assert float(first) < float(last)
-    assert pg.locator("#materials thead th:nth-child(6)").get_attribute("aria-sort") == "ascending"
+    # sort by boiling point, ascending: the first row boils lowest (the column found by its header)
+    headers = [h.strip() for h in pg.locator("#materials thead th").all_inner_texts()]
+    n = headers.index("Boiling point")
+    pg.locator(f"#materials thead th:nth-child({n + 1}) button").click()
+    sorts = [rows.nth(i).locator("td").nth(n).get_attribute("data-sort") for i in range(total)]
+    numbers = [float(v) for v in sorts if v]
+    assert numbers == sorted(numbers) and numbers[0] < numbers[-1]
+    assert pg.locator(f"#materials thead th:nth-child({n + 1})").get_attribute("aria-sort") == "ascending"
     # filter by dominant force: only hydrogen-bonding rows stay visible
     pg.select_option("select[data-filter='force']", "hydrogen-bonding")
     visible = pg.locator("#materials tbody tr:not([hidden])")
@@ -112,6 +114,24 @@ def test_table_sorts_and_filters(page, root):
     for i in range(visible.count()):
         assert visible.nth(i).get_attribute("data-force") == "hydrogen-bonding"
     assert pg.locator("#table-count").inner_text().startswith(f"{visible.count()} of {total}")
+
+
+def test_text_filter_searches_the_stores_and_every_shown_word(page, root):
+    pg, _ = page
+    pg.goto(root + "index.html")
+    rows = pg.locator("#materials tbody tr")
+    total = rows.count()
+    box = pg.locator("input[data-filter-text]")
+    headers = [h.strip() for h in pg.locator("#materials thead th").all_inner_texts()]
+    for query, header in (("solvent bunker", "Stores"), ("cold room", "Stores"), ("hydrogen bonding", "Dominant force")):
+        column = headers.index(header)
+        box.fill(query)
+        visible = pg.locator("#materials tbody tr:not([hidden])")
+        assert 0 < visible.count() < total, query
+        for i in range(visible.count()):
+            assert query in visible.nth(i).locator("td").nth(column).inner_text().lower(), query
+    box.fill("")
+    assert pg.locator("#materials tbody tr:not([hidden])").count() == total
 
 
 def test_cross_link_leads_to_the_isomer(page, root):

@@ -106,3 +106,70 @@ def test_cli_json_between_two_revisions(repo, capsys, monkeypatch):
     hexane = changed["n-hexane"]
     assert hexane["dominant_force"]["old"] == "London dispersion"
     assert main(["diff", "no-such-revision", "--json"]) == 2
+
+
+@pytest.fixture(scope="module")
+def added_repo(tmp_path_factory):
+    """main: the demo entries; working tree: one new entry (propanal, a duplicate-free structure)
+    with a boiling point in the wrong unit, so `cohesion check` has something to say about it."""
+    root = tmp_path_factory.mktemp("added")
+    shutil.copytree(DEMO, root / "entries", ignore=shutil.ignore_patterns("*.json"))
+    _git(root, "init", "-q", "-b", "main")
+    _git(root, "add", "entries")
+    _git(root, "commit", "-q", "-m", "demo entries")
+    # propanal boils at 48 °C and melts at −80 °C (CRC Handbook); the melting point without its sign
+    (root / "entries" / "propanal.yaml").write_text(
+        "name: Propanal\nsmiles: CCC=O\nproperties:\n  boiling_point: {value: 48.0 °C, source: crc-95}\n"
+        "  melting_point: {value: 80 °C, source: crc-95}\n", encoding="utf-8")
+    return root
+
+
+def test_an_added_entry_shows_its_derived_summary_and_its_check_findings(added_repo):
+    report = change_report(added_repo / "entries")
+    assert report.added == [("propanal", "Propanal")]
+    summary = {k: text for k, _, text in report.added_summary["propanal"]}
+    assert {"dominant_force", "boiling_point", "volatility_band"} <= set(summary)
+    assert "48.0 °C" in summary["boiling_point"]
+    assert any(d.severity == "error" and "melting point" in d.message for d in report.findings["propanal"])
+    text = markdown(report)
+    assert "#### Added: `propanal` — Propanal" in text and "- dominant force: " in text
+    assert "propanal.yaml:5:26: error: melting point" in text and "findings" in text
+    # one entry: singular; other entries whose links moved get one line each
+    from builder.review.diffreport import Report
+
+    assert text.splitlines()[2].startswith(f"{1 + len(report.changed)} entries: 1 added")
+    assert "1 entry: 1 added, 0 removed, 0 changed." in markdown(Report("a", "b", added=[("x", "X")]))
+    for eid in report.links_only:
+        assert f"#### `{eid}`" not in text
+        assert sum(line.startswith(f"- `{eid}` ") for line in text.splitlines()) == 1
+
+
+def test_cross_link_only_changes_collapse_to_one_line(report):
+    assert report.links_only and all({k for k, _, _ in report.changed[e]} == {"links"} for e in report.links_only)
+    text = markdown(report)
+    assert "**Cross-links only:**" in text
+    for eid in report.links_only:
+        assert f"#### `{eid}`" not in text
+    assert "#### `toluene`" in text  # a real change keeps its table
+
+
+def test_antoine_coefficient_c_is_not_read_as_celsius(repo):
+    from builder.review.diffreport import snapshot
+    from builder.derive.catalog import derive_catalog
+    from builder.load.entries import load_catalog
+
+    catalog, _ = load_catalog(DEMO)
+    d = next(x for x in derive_catalog(catalog) if x.entry.id == "toluene")
+    text = snapshot(d)["stated:antoine"]
+    assert "C = −55.525" in text.replace("-", "−") and "T in K" in text
+
+
+def test_check_counts_are_worded_in_the_singular_for_one(make_entries, capsys):
+    folder = make_entries({"ethanol.yaml": "name: Ethanol\nsmiles: CCO\n"},
+                          sources="crc-95:\n  title: CRC Handbook\n  kind: handbook\n")
+    # Exactly one warning: the bibliography's only source (crc-95) is cited by no entry.
+    main(["check", "--entries", str(folder)])
+    err = capsys.readouterr().err
+    assert err.count("warning: ") == 1 and "'crc-95' is cited by no entry" in err, err
+    assert "1 entry, 0 errors, 1 warning" in err and "1 warnings" not in err, err
+    assert "1 entries" not in err, err

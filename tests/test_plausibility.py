@@ -10,6 +10,12 @@ from __future__ import annotations
 
 import pytest
 
+# chemicals is a pinned test dependency: imported plainly so that its absence fails
+from chemicals import miscdata
+from chemicals.identifiers import search_chemical
+from chemicals.safety import T_flash
+from chemicals.vapor_pressure import Antoine, Psat_data_AntoinePoling
+
 from builder.cli import main
 from builder.core.diagnostics import CatalogError
 from builder.derive.catalog import derive_catalog
@@ -20,12 +26,6 @@ from builder.review.plausibility import (
     density_range,
     heavy_mass_fraction,
 )
-
-chemicals = pytest.importorskip("chemicals")
-from chemicals import miscdata  # noqa: E402
-from chemicals.identifiers import search_chemical  # noqa: E402
-from chemicals.safety import T_flash  # noqa: E402
-from chemicals.vapor_pressure import Antoine, Psat_data_AntoinePoling  # noqa: E402
 
 CRC = miscdata.CRC_organic_data
 SOURCES = """\
@@ -150,6 +150,17 @@ def test_uncited_source_warns_at_its_line(make_entries):
     assert _messages(diags, "'iec'") == []  # named in the notes: counts as cited
 
 
+def test_hazard_source_counts_as_cited(make_entries):
+    sources = SOURCES + "clp:\n  title: CLP Regulation, Annex VI\n  kind: standard\n"
+    text = _entry("Ethanol", "CCO", extra="hazard_statements: [H225, H319]\nhazard_source: clp\n")
+    assert _messages(_run(make_entries, {"ethanol.yaml": text}, sources), "'clp'") == []
+    bare = _entry("Ethanol", "CCO", extra="hazard_statements: [H225, H319]\n")
+    diags = _run(make_entries, {"ethanol.yaml": bare}, sources)
+    assert _messages(diags, "'clp' is cited by no entry")
+    (d,) = _messages(diags, "hazard statements name no source")
+    assert d.severity == "warning" and d.line == 3
+
+
 def _antoine_props(vp_text, at):
     row = Psat_data_AntoinePoling.loc[ETHANOL]
     return (f"  vapor_pressure: {{value: {vp_text}, source: crc-95, conditions: {{at: {at}}}}}\n"
@@ -173,8 +184,10 @@ def test_vapor_pressure_against_the_antoine_equation(make_entries):
 def test_check_of_named_files_still_sees_the_whole_folder(make_entries, capsys):
     folder = make_entries({"a-ethanol.yaml": _entry("Ethanol", "CCO"), "b-alcohol.yaml": _entry("Alcohol", "OCC")},
                           sources=SOURCES.split("iec:")[0])
-    assert main(["check", "--entries", str(folder), str(folder / "a-ethanol.yaml")]) == 0
-    assert "same structure" not in capsys.readouterr().err
+    # the duplicate involves the checked file, so checking it alone fails as the build would
+    assert main(["check", "--entries", str(folder), str(folder / "a-ethanol.yaml")]) == 1
+    err = capsys.readouterr().err
+    assert "a-ethanol.yaml:2:9: error: same structure" in err and "'b-alcohol'" in err
     assert main(["check", "--entries", str(folder), str(folder / "b-alcohol.yaml")]) == 1
     err = capsys.readouterr().err
     assert "b-alcohol.yaml:2:9: error: same structure" in err and "a-ethanol" in err

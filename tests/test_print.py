@@ -10,6 +10,7 @@ import io
 import math
 import os
 import re
+import unicodedata
 
 import pytest
 from conftest import DEMO, ETHANOL
@@ -49,6 +50,21 @@ def _text(reader: PdfReader) -> str:
     return re.sub(r"\s+", " ", " ".join(p.extract_text() for p in reader.pages))
 
 
+def _squeezed(text: str) -> str:
+    """Text without any white space and with ligatures undone (the PDF text layer writes "ﬂ"):
+    a note broken over lines or columns still matches."""
+    return re.sub(r"\s+", "", unicodedata.normalize("NFKC", text))
+
+
+def _assert_unbroken(reader: PdfReader, where: str) -> None:
+    """No value split from its unit, no code split at a hyphen, no separator left dangling."""
+    for page in reader.pages:
+        raw = page.extract_text()
+        assert not re.search(r"\d\n\s*(K\b|°C|kPa|g/mol)", raw), (where, raw)
+        assert not re.search(r"HM-(S-)?\n", raw), (where, raw)
+        assert not re.search(r"·\s*$", raw, re.MULTILINE), (where, raw)
+
+
 @pytest.mark.parametrize("paper", ["A4", "Letter"])
 def test_every_datasheet_prints_on_one_page(site, printer, paper):
     out, built = site
@@ -63,6 +79,11 @@ def test_every_datasheet_prints_on_one_page(site, printer, paper):
         assert revision_text(revision, d.entry) in text, d.entry.id
         if d.entry.catalog.code:
             assert d.entry.catalog.code in text
+        # no note is cut: every handling note and the entry's own notes, in full, in the text layer
+        squeezed = _squeezed(text)
+        for note in [n.text for n in d.notes] + ([d.entry.notes] if d.entry.notes else []):
+            assert _squeezed(note) in squeezed, (d.entry.id, paper, note[:60])
+        _assert_unbroken(reader, d.entry.id)
 
 
 def test_printed_revision_names_a_commit_or_says_there_is_none(site):
@@ -82,6 +103,17 @@ def test_shelf_card_pages_hold_eight_cards(site, printer, paper):
     per_page = [sum(code in page.extract_text() for code in codes) for page in reader.pages]
     assert per_page[:-1] == [CARDS_PER_PAGE] * (len(per_page) - 1)
     assert sum(per_page) == n
+    # every precaution in its short form and the health H-codes, on every card
+    from builder.publish.views import card_notes, health_codes
+
+    squeezed = _squeezed(_text(reader))
+    for d in built.derived:
+        for _, note in card_notes(d):
+            assert _squeezed(note) in squeezed, (d.entry.id, note)
+        for code in health_codes(d):
+            assert code in squeezed, (d.entry.id, code)
+    assert "nonederived" not in squeezed
+    _assert_unbroken(reader, "cards")
 
 
 def test_store_sheets_print_on_one_page_with_their_materials(site, printer):
@@ -94,6 +126,7 @@ def test_store_sheets_print_on_one_page_with_their_materials(site, printer):
             if key in d.entry.catalog.locations:
                 assert d.entry.catalog.code in text, (key, d.entry.id)
         assert "not a safety data sheet" in text
+        _assert_unbroken(reader, key)
 
 
 def test_print_command_writes_pdfs(make_entries, tmp_path, capsys, chromium_command, monkeypatch):

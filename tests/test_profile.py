@@ -3,13 +3,13 @@ from __future__ import annotations
 
 import io
 import json
+import re
 
+import chemicals.identifiers as chemicals_ids  # pinned test dependency: import plainly so absence fails
 import pytest
 
 from builder.cli import main
 from builder.core.values import KINDS
-
-chemicals_ids = pytest.importorskip("chemicals.identifiers")
 
 
 def _lines(capsys):
@@ -43,3 +43,24 @@ def test_reads_smiles_from_stdin_and_files(capsys, monkeypatch, tmp_path):
     listing.write_text("CCCC\n", encoding="utf-8")
     assert main(["profile", str(listing), "--json"]) == 0
     assert [o["formula"] for o in _lines(capsys)] == ["C4H10"]
+
+
+def test_profile_text_is_written_for_people(capsys):
+    assert main(["profile", "c1ccccc1"]) == 0
+    out = capsys.readouterr().out
+    lines = {line.split("  ")[1].strip(): line for line in out.splitlines() if line.startswith("  ") and
+             len(line.split("  ")) > 2}
+    # digits set by the uncertainty, never a raw float: benzene's moment cancels by symmetry
+    from builder.chem.dipole import MMFF_STANDARD_UNCERTAINTY_D
+
+    assert f"0.0 ± {MMFF_STANDARD_UNCERTAINTY_D:.1f} D" in lines["Dipole moment"] and not re.search(r"\de-\d", out)
+    # temperatures in °C with K in brackets, at the precision the uncertainty allows
+    assert re.search(r"Boiling point +\d+ ± \d+ °C \(\d+ K\)", out)
+    # units as symbols, counts bare, methods in plain words
+    assert "Å³" in lines["Polarizability"] and "Å²" in lines["Surface area"]
+    assert re.search(r"Electrons per molecule +42  \[", out) and not re.search(r"\d count", out)
+    assert "[estimated: boiling point from structure]" in out and "tb-joback-sb-trees" not in out
+    # one capital, each category number once
+    assert re.search(r"flammable category: Category \d( or \d)*( or not a flammable liquid)?"
+                     r"( \(most likely (\d|not a flammable liquid)\))? —", out), out
+    assert "or category" not in out

@@ -70,7 +70,8 @@ def _load(tmp_path, doc):
     """Write ``doc`` as an entry, with a bibliography and stores holding every key it names."""
     folder = tmp_path / "entries"
     folder.mkdir(exist_ok=True)
-    sources = {k: {"title": "T", "kind": "handbook"} for k in _keys(doc, "source") if isinstance(k, str)}
+    named = list(_keys(doc, "source")) + list(_keys(doc, "hazard_source"))
+    sources = {k: {"title": "T", "kind": "handbook"} for k in named if isinstance(k, str)}
     stores = {k: {"name": "S"} for k in _keys(doc.get("catalog") or {}, "locations") if isinstance(k, str)}
     (folder / "sources.yaml").write_text(yaml.safe_dump(sources or {"x": {"title": "T", "kind": "handbook"}}))
     (folder / "locations.yaml").write_text(yaml.safe_dump(stores or {"s": {"name": "S"}}))

@@ -232,7 +232,7 @@ def force_profile(mol_or_smiles: str | Chem.Mol, boiling_point_K: float | None =
     if ionic:
         present.append("ionic")
     reasons = _reasons(mol, ionic, dipole, stereo_reason, donors, acceptors, alpha,
-                       n_electrons, shape, excess)
+                       n_electrons, shape, excess, present[-1])
     not_computed = {}
     if dipole.value_D is None and dipole.status.startswith(TOO_LARGE):
         not_computed["dipole_D"] = dipole.status
@@ -281,15 +281,50 @@ _KINDS = {
 }
 
 
+def is_chain(mol: Chem.Mol) -> bool:
+    r"""An open chain: no ring, and a run of at least four carbon atoms bonded one to the next.
+
+    >>> is_chain(Chem.MolFromSmiles("CCCCO")), is_chain(Chem.MolFromSmiles("Cl/C=C\\Cl"))
+    (True, False)
+    """
+    if mol.GetRingInfo().NumRings():
+        return False
+    return mol.HasSubstructMatch(Chem.MolFromSmarts("[#6]~[#6]~[#6]~[#6]"))
+
+
+def is_flat(mol: Chem.Mol, shape: str | None) -> bool:
+    """Aromatic (a ring of at least five aromatic atoms), or disc-like by its moments of inertia."""
+    ring_info = mol.GetRingInfo()
+    aromatic = any(len(ring) >= 5 and all(mol.GetAtomWithIdx(i).GetIsAromatic() for i in ring)
+                   for ring in ring_info.AtomRings())
+    return aromatic or shape == "disc-like"
+
+
+#: atoms that carry fewer electrons per gram than CH2 does: the n-alkane of equal mass then has
+#: more electrons (and contact) than the molecule, so the comparison by mass understates it
+_HEAVY_SYMBOLS = ("F", "Cl", "Br", "I", "S", "P", "Si")
+
+
+def heavy_atoms(mol: Chem.Mol) -> list[str]:
+    """The heavy-atom symbols of ``mol`` (halogens, S, P, Si), each once, in formula order."""
+    found = {a.GetSymbol() for a in mol.GetAtoms()}
+    return [s for s in _HEAVY_SYMBOLS if s in found]
+
+
 def _reasons(mol: Chem.Mol, ionic: str | None, dipole: DipoleEstimate,
              stereo_reason: str | None, donors: int, acceptors: int, alpha: float | None,
-             n_electrons: int, shape: str | None, excess: float | None) -> list[str]:
+             n_electrons: int, shape: str | None, excess: float | None,
+             dominant: str = "dispersion") -> list[str]:
     reasons = [ionic] if ionic else []
     size = f"{n_electrons} electrons"
     if alpha is not None:
         size += f", polarizability {alpha:.1f} Å³"
-    reasons.append(f"Dispersion acts between all molecules; it grows with size ({size}).")
-    if shape == "rod-like" and mol.GetNumHeavyAtoms() > 3:
+    if ionic:
+        reasons.append(f"Dispersion acts as well, growing with size ({size}), but it is small beside "
+                       "the attraction between the ions.")
+    else:
+        reasons.append(f"Dispersion acts between all molecules; it grows with size ({size}).")
+    if shape == "rod-like" and mol.GetNumHeavyAtoms() > 3 and is_chain(mol):
         reasons.append("Its chain-like shape gives a large contact area, which strengthens dispersion.")
     elif shape == "sphere-like" and mol.GetNumHeavyAtoms() > 3:
         reasons.append("Its compact, ball-like shape limits contact area and so dispersion.")
@@ -326,20 +361,50 @@ def _reasons(mol: Chem.Mol, ionic: str | None, dipole: DipoleEstimate,
         reasons.append("It has H on N, O or F but no free N, O or F lone pair, so it forms "
                        "hydrogen bonds only with acceptor molecules.")
     if excess is not None and not ionic:
-        reasons.append(_excess_reason(excess))
+        reasons.append(_excess_reason(excess, dominant, is_flat(mol, shape), heavy_atoms(mol)))
     return reasons
 
 
-def _excess_reason(excess: float) -> str:
+def _excess_reason(excess: float, dominant: str = "dispersion", flat: bool = False,
+                   heavy: list[str] | tuple[str, ...] = ()) -> str:
+    """What the force excess says, in words that agree with the dominant force: a polar molecule
+    is never told it gains nothing beyond dispersion, a non-polar one never that forces beyond
+    dispersion add.  Flat (aromatic, planar) molecules and molecules with heavy atoms are told
+    why the n-alkane of equal mass is the wrong yardstick for them."""
     limit = FORCE_EXCESS_NOTABLE_K
+    polar = dominant != "dispersion"
+    heavy_text = " and ".join(heavy)
     if excess > limit:
-        return (f"It boils {excess:.0f} K above the n-alkane of the same molar mass: the "
-                "forces beyond dispersion add noticeably to cohesion.")
+        head = f"It boils {excess:.0f} K above the n-alkane of the same molar mass"
+        if polar:
+            return f"{head}: the forces beyond dispersion add noticeably to cohesion."
+        if flat:
+            return (f"{head}. It has no polar attraction to explain this: flat molecules (an aromatic ring, "
+                    "a planar frame) stack face to face and touch over more of their surface than chains "
+                    "of equal mass, so their dispersion is stronger; the n-alkane is the wrong yardstick "
+                    "for a flat molecule.")
+        return (f"{head}. It has no polar attraction to explain this: its compact shape (rings, few "
+                "loose ends) packs closely, so dispersion is stronger than between chains of equal mass.")
     if excess < -limit:
-        return (f"It boils {-excess:.0f} K below the n-alkane of the same molar mass: it "
-                "gains nothing beyond dispersion, and heavy atoms give fewer electrons per gram.")
-    return (f"It boils within {limit:.0f} K of the n-alkane of the same molar mass "
-            f"({excess:+.0f} K): dispersion supplies nearly all of the cohesion.")
+        head = f"It boils {-excess:.0f} K below the n-alkane of the same molar mass"
+        if heavy:
+            why = (f"its {heavy_text} atoms add mass with fewer electrons per gram than CH₂, so the "
+                   "n-alkane of equal mass is larger in electrons and contact and the comparison by mass "
+                   "understates its cohesion")
+            if polar:
+                return (f"{head}: {why}. This does not mean the {dominant.replace('-', '–')} attraction "
+                        "is absent.")
+            return f"{head}: {why}; it gains nothing beyond dispersion."
+        if polar:
+            return (f"{head}: by this measure the {dominant.replace('-', '–')} attraction adds little; "
+                    "the molecule is more compact than a chain of equal mass, which weakens its dispersion.")
+        return f"{head}: it gains nothing beyond dispersion, and its compact shape limits contact."
+    head = (f"It boils within {limit:.0f} K of the n-alkane of the same molar mass "
+            f"({excess:+.0f} K)".replace("-", "−"))
+    if polar:
+        return (f"{head}: dispersion supplies most of the cohesion; the "
+                f"{dominant.replace('-', '–')} attraction adds little to the boiling point.")
+    return f"{head}: dispersion supplies nearly all of the cohesion."
 
 
 def _plural(n: int, noun: str) -> str:

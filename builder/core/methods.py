@@ -19,8 +19,8 @@ import yaml
 from builder.core.values import KINDS
 
 METHODS_PATH = Path(__file__).resolve().parents[1] / "data" / "methods.yaml"
-_FIELDS = ("id", "name", "kind", "summary", "reference", "equation", "applicability", "error", "estimator")
-_REQUIRED = ("id", "name", "kind", "summary", "reference")
+_FIELDS = ("id", "name", "plain", "kind", "summary", "reference", "equation", "applicability", "error", "estimator")
+_REQUIRED = ("id", "name", "plain", "kind", "summary", "reference")
 _CITE = re.compile(r"\{([a-z0-9-]+)\}")
 
 
@@ -28,6 +28,9 @@ _CITE = re.compile(r"\{([a-z0-9-]+)\}")
 class Method:
     id: str
     name: str
+    #: a few plain words shown to readers beside a value ("boiling point from structure"); the id
+    #: stays in links and exports
+    plain: str
     kind: str  # the provenance kind of the values it gives
     summary: str
     reference: str  # with every {key} expanded to the citation
@@ -86,6 +89,12 @@ def read_methods(path: Path = METHODS_PATH) -> tuple[dict[str, str], dict[str, M
 
 
 REFERENCES, METHODS = read_methods()
+
+
+def plain_name(method_id: str) -> str:
+    """What a reader sees for a method id: its plain words (the id itself when it is unknown)."""
+    method = METHODS.get(method_id)
+    return method.plain if method else method_id
 
 
 def method_for_estimator(key: str) -> str:

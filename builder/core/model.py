@@ -10,7 +10,7 @@ from dataclasses import dataclass, field
 from types import MappingProxyType
 from typing import Mapping
 
-from builder.core.values import Value
+from builder.core.values import Provenance, Value
 
 SOURCE_KINDS = ("handbook", "paper", "standard", "database", "supplier", "in-house")
 #: provenance a value gets by default from the kind of source it cites
@@ -54,6 +54,12 @@ class Location:
     description: str | None = None
     max_store_temperature: Value | None = None
     line: int = 1
+    #: storage groups (builder/data/storage_compatibility.yaml) the store is meant for; empty: any
+    allowed_groups: tuple[str, ...] = ()
+    #: most flammable liquid the store may hold (m³), summed over the materials' stated containers
+    max_flammable_liquid_volume: Value | None = None
+    #: line of each of the location's keys ("allowed_groups" -> line), for warnings
+    lines: Mapping[str, int] = field(default_factory=frozen_map)
 
 
 @dataclass(frozen=True)
@@ -110,6 +116,8 @@ class Entry:
     #: identity as the entry declares it (``formula``, ``molar_mass`` in g/mol); checked against the SMILES
     declared_formula: str | None = None
     declared_molar_mass: float | None = None
+    #: where the hazard statements come from (the entry's ``hazard_source``), None when it names none
+    hazard_provenance: Provenance | None = None
 
     def line_of(self, dotted: str) -> tuple[int, int]:
         while dotted:

@@ -54,6 +54,8 @@ DIMENSIONS: dict[str, Dimension] = {
     "mass_concentration": Dimension("mass concentration", "kg/m**3", "20 mg/m3"),
     # the chemistry exception: molar masses stay in g/mol, as every reference gives them
     "molar_mass": Dimension("molar mass", "g/mol", "46.07 g/mol"),
+    # a store's volume limit (locations.yaml)
+    "volume": Dimension("volume", "m**3", "250 L"),
 }
 
 #: common spellings of each dimension's units, for the JSON Schema (editor completion and checks).
@@ -66,6 +68,7 @@ UNIT_SPELLINGS: dict[str, tuple[str, ...]] = {
     "ratio": (),
     "mass_concentration": ("g/L", "mg/L", "mg/mL", "g/mL", "mg/m3", "kg/m3", "g/cm3"),
     "molar_mass": ("g/mol", "kg/mol"),
+    "volume": ("L", "mL", "m3", "m³"),
 }
 
 #: dimensionless units kept inside as scaled numbers (a fraction of 2e-5 is kept as 20 ppm)
@@ -241,29 +244,79 @@ def fixed(x: float, decimals: int) -> str:
     return f"{x:.{decimals}f}".replace("-", "\u2212")
 
 
+def uncertainty_decimals(uncertainty: float) -> int:
+    """Decimal places at which a value and its standard uncertainty are both written.
+
+    The uncertainty keeps two significant digits when its first three digits are 100 to 354 and
+    one digit above that (the Particle Data Group's rounding rule, Review of Particle Physics,
+    "Introduction: rounding"), in line with the GUM (JCGM 100:2008, 7.2.6: at most two significant
+    digits).  The value is then rounded to the same place.
+
+    >>> uncertainty_decimals(0.57), uncertainty_decimals(0.012), uncertainty_decimals(10.3)
+    (1, 3, 0)
+    >>> uncertainty_decimals(22.0), uncertainty_decimals(0.96), uncertainty_decimals(480.0)
+    (0, 1, -2)
+    """
+    exponent = math.floor(math.log10(uncertainty))
+    leading = uncertainty / 10 ** (exponent - 2)  # three digits, 100 ... 999
+    if leading >= 949.5:  # rounds up to 1.0 of the next decade: two digits of that
+        return 1 - (exponent + 1)
+    return (1 if leading < 354.5 else 0) - exponent
+
+
+def _measured(x: float, uncertainty: float | None, plain_digits: int = 4) -> str:
+    """``x ± u`` with digits set by the uncertainty (``uncertainty_decimals``); without one,
+    ``x`` to ``plain_digits`` significant digits.  Big or small numbers share a power of ten:
+    (5 ± 5) × 10^-7; large ones in digit groups: 580 000 ± 480 000."""
+    if not uncertainty:
+        return _round(x, plain_digits)
+    decimals = uncertainty_decimals(uncertainty)
+    power = 0
+    if decimals < -8 or decimals > 6:  # write both in a shared power of ten
+        power = math.floor(math.log10(uncertainty))
+        x, uncertainty = x / 10 ** power, uncertainty / 10 ** power
+        decimals = uncertainty_decimals(uncertainty)
+    shown = max(decimals, 0)
+
+    def digits(v: float) -> str:
+        text = f"{round(v, decimals):,.{shown}f}".replace(",", "\u2009")
+        return text if abs(v) >= 1e4 else text.replace("\u2009", "")
+
+    value_text = digits(x)
+    if value_text.lstrip("-").strip("0.") == "":
+        value_text = value_text.lstrip("-")  # no "−0.0"
+    text = f"{value_text} ± {digits(uncertainty)}"
+    return f"({text}) × 10^{power}" if power else text
+
+
 def format_value(si_value: float, si_unit: str, uncertainty: float | None = None) -> str:
-    """Text a person reads: temperatures in °C with K beside, pressures in kPa."""
+    """Text a person reads: temperatures in °C with K beside, pressures in kPa; with an
+    uncertainty, the digits are set by it (``uncertainty_decimals``)."""
     if si_unit == "K":
-        unc = f" ± {uncertainty:.0f}" if uncertainty else ""
-        return f"{celsius_text(si_value, 1, unit=False)}{unc} °C ({si_value:.1f} K)"
+        if uncertainty:
+            d = min(max(uncertainty_decimals(uncertainty), 0), 1)
+            return (f"{celsius_text(si_value, d, unit=False)} ± {round(uncertainty, d):.{d}f} °C "
+                    f"({si_value:.{d}f} K)")
+        return f"{celsius_text(si_value, 1, unit=False)} °C ({si_value:.1f} K)"
     if si_unit == "Pa":
-        kpa = si_value / 1000.0
-        unc = f" ± {_round(uncertainty / 1000.0, 2)}" if uncertainty else ""
-        return f"{_round(kpa, 4)}{unc} kPa".replace("-", "\u2212")
+        unc = uncertainty / 1000.0 if uncertainty else None
+        return f"{_measured(si_value / 1000.0, unc)} kPa".replace("-", "\u2212")
     if si_unit == "kg/m**3":
         unc = f" ± {uncertainty / 1000.0:.3f}" if uncertainty else ""
         return f"{si_value / 1000.0:.3f}{unc} g/cm³"
     if si_unit in FRACTION_SCALE:
-        unc = f" ± {_round(uncertainty, 2)}" if uncertainty else ""
-        return f"{_round(si_value, 4)}{unc} {si_unit}"
+        return f"{_measured(si_value, uncertainty)} {si_unit}".replace("-", "\u2212")
     if si_unit == "K delta":
-        unc = f" ± {uncertainty:.0f}" if uncertainty else ""
-        return f"{si_value:+.1f}{unc} K".replace("-", "\u2212")
+        if uncertainty:
+            d = min(max(uncertainty_decimals(uncertainty), 0), 1)
+            sign = "+" if round(si_value, d) > 0 else ""
+            return f"{sign}{si_value:.{d}f} ± {round(uncertainty, d):.{d}f} K".replace("-", "\u2212")
+        return f"{si_value:+.1f} K".replace("-", "\u2212")
     display = {"g/mol": "g/mol", "D": "D", "A**3": "Å³", "A**2": "Å²", "ppm": "ppm",
                "dimensionless": "", "count": ""}
     if si_unit == "J/mol":
-        unc = f" ± {uncertainty / 1000.0:.1f}" if uncertainty else ""
-        return f"{si_value / 1000.0:.1f}{unc} kJ/mol"
+        if uncertainty:
+            return f"{_measured(si_value / 1000.0, uncertainty / 1000.0)} kJ/mol".replace("-", "\u2212")
+        return f"{si_value / 1000.0:.1f} kJ/mol"
     unit_text = display.get(si_unit, si_unit)
-    unc = f" ± {_round(uncertainty, 2)}" if uncertainty else ""
-    return f"{_round(si_value, 4)}{unc} {unit_text}".strip().replace("-", "\u2212")
+    return f"{_measured(si_value, uncertainty)} {unit_text}".strip().replace("-", "\u2212")

@@ -16,14 +16,17 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from typing import Mapping
 
+from builder.chem.alerts import Alert, find_alerts
 from builder.chem.handling import Note
 from builder.chem.identity import Identity, identify, parse_smiles
+from builder.chem.storage import Assignment, assign_group
 from builder.core.diagnostics import Diagnostic
 from builder.core.model import Entry, Location, frozen_map
 from builder.core.values import Label, Provenance, Value, computed
 from builder.derive.boiling import boiling_values
 from builder.derive.fire import Segment, fire_values
 from builder.derive.forces import Forces, forces_of
+from builder.derive.state import state_values
 
 #: store temperature assumed when neither the entry nor its stores state one (K)
 DEFAULT_STORE_TEMPERATURE = 308.15
@@ -43,6 +46,11 @@ class Derived:
     curve: tuple[Segment, ...] = ()
     #: findings for ``cohesion check`` (warnings about plausibility), with file positions
     findings: tuple[Diagnostic, ...] = ()
+    #: structural hazard alerts (builder/chem/alerts.py); atom indices refer to ``identity.smiles``
+    hazard_alerts: tuple[Alert, ...] = ()
+    #: the storage group and every class the material carries (builder/chem/storage.py); the group
+    #: is also ``labels["storage_group"]``
+    storage: Assignment | None = None
 
     def get(self, name: str) -> Value | None:
         return self.values.get(name)
@@ -59,6 +67,13 @@ def store_temperature(entry: Entry, locations: Mapping[str, Location] | None) ->
     if rated:
         return max(rated, key=lambda v: v.value)
     return Value(DEFAULT_STORE_TEMPERATURE, "K", Provenance("assumed", method="default-store-temperature"))
+
+
+def hazard_label(entry: Entry) -> Label:
+    """The entry's GHS hazard statement codes as a label tagged with their source (an assumed
+    value of method ``hazard-statements-unsourced`` when the entry names none)."""
+    prov = entry.hazard_provenance or Provenance("assumed", method="hazard-statements-unsourced")
+    return Label(", ".join(entry.hazard_statements), prov, tuple(entry.hazard_statements))
 
 
 def derive_entry(entry: Entry, locations: Mapping[str, Location] | None = None) -> Derived:
@@ -83,11 +98,34 @@ def derive_entry(entry: Entry, locations: Mapping[str, Location] | None = None) 
     values["store_temperature"] = store_T
     if entry.catalog.process_temperature is not None:
         values["process_temperature"] = entry.catalog.process_temperature
+    state = state_values(entry, mol if entry.type == "substance" else None, values, store_T)
+    values.update(state.values)
+    labels.update(state.labels)
+    findings += state.findings
     fire = fire_values(entry, mol, values, forces.dominant.code if forces else None, store_T,
-                       entry.catalog.process_temperature)
+                       entry.catalog.process_temperature, state_facts=state.facts,
+                       liquid_possible=state.liquid_possible)
     values.update(fire.values)
     labels.update(fire.labels)
     findings += fire.findings
     notes = tuple(fire.notes)
+    if entry.hazard_statements:
+        labels["hazard_statements"] = hazard_label(entry)
+    alerts, storage = hazard_alerts_of(entry, identity, labels)
+    labels["storage_group"] = Label(storage.name, Provenance("rule", method="storage-group", note=storage.reason),
+                                    storage.group)
     return Derived(entry, identity, frozen_map(values), frozen_map(labels), forces, notes, tuple(fire.curve),
-                   tuple(findings))
+                   tuple(findings), alerts, storage)
+
+
+def hazard_alerts_of(entry: Entry, identity: Identity | None, labels: Mapping[str, Label]):
+    """The structural alerts (matched on the canonical SMILES, the one the drawing uses) and the
+    storage group from the state, the alerts, the flammable category and the hazard statements."""
+    mol = parse_smiles(identity.smiles)[0] if identity is not None else None
+    alerts = find_alerts(mol, entry.hazard_statements)
+    category = labels.get("flammable_category")
+    code = category.code if category is not None and isinstance(category.code, int) else None
+    state = labels.get("physical_state")
+    # the most likely state at 20 °C (a stated or declared gas: H280 and the like set the group too)
+    state_code = state.code if state is not None and isinstance(state.code, str) else None
+    return alerts, assign_group(entry.hazard_statements, alerts, code, state_code)

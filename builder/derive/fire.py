@@ -126,15 +126,39 @@ def _flash_point(entry: Entry, mol: Chem.Mol | None, tb: Value | None,
     if tb is not None and flash_estimate_applies(mol):
         n_c = vs.n_carbon if vs else None
         args = dict(n_carbon=n_c, tau=vs.tau if vs else None, hbn=vs.hbn if vs else None)
-        est = flash.estimate_flash_point(tb.value, **args)
-        u = est.u
-        if tb.kind == "estimated" and tb.uncertainty:
-            slope = (flash.estimate_flash_point(tb.value + 0.5, **args).value
-                     - flash.estimate_flash_point(tb.value - 0.5, **args).value)
-            u = math.hypot(u, slope * tb.uncertainty)
+        try:
+            est = flash.estimate_flash_point(tb.value, **args)
+            u = est.u
+            if tb.kind == "estimated" and tb.uncertainty:
+                slope = (flash.estimate_flash_point(tb.value + 0.5, **args).value
+                         - flash.estimate_flash_point(tb.value - 0.5, **args).value)
+                u = math.hypot(u, slope * tb.uncertainty)
+        except ValueError:  # outside the correlations' range (e.g. a gas far below 25 °C): no estimate
+            return stated, None
         method = method_for_estimator(est.estimator)
         estimate = estimated(est.value, "K", method, u, f"from the {tb.kind} boiling point")
     return stated or estimate, estimate
+
+
+#: how much a derived value can be trusted, weakest last: a value derived by a rule from its inputs is
+#: no better than the weakest of them, so it carries that input's kind when it is weaker than "rule"
+_WEAKER_THAN_RULE = ("assumed", "estimated")
+
+
+def inherited_kind(*inputs: Value | None) -> str:
+    """The provenance kind of a value derived by a rule from ``inputs``: ``estimated`` when any input
+    is an estimate, else ``assumed`` when any input is an assumed default, else ``rule``.
+
+    >>> inherited_kind(estimated(300.0, "K", "catoire-naudet", 5.0))
+    'estimated'
+    >>> inherited_kind(None)
+    'rule'
+    """
+    kinds = {v.kind for v in inputs if v is not None}
+    for kind in reversed(_WEAKER_THAN_RULE):
+        if kind in kinds:
+            return kind
+    return "rule"
 
 
 def _category(entry: Entry, fp: Value | None, tb: Value | None, result: FireResult) -> None:
@@ -149,21 +173,21 @@ def _category(entry: Entry, fp: Value | None, tb: Value | None, result: FireResu
     note = "rests on an estimated " + " and ".join(estimated_inputs) if estimated_inputs else None
     possible = sorted(rng.categories, key=lambda c: 5 if c is None else c)
 
-    def words(c):
-        return "not a flammable liquid" if c is None else f"category {c}"
-
+    # one capital, numbers once: "Category 3 or 4 or not a flammable liquid (most likely 4)"
+    numbers = [str(c) for c in possible if c is not None]
+    text = "Category " + " or ".join(numbers) if numbers else "Not a flammable liquid"
+    if numbers and None in possible:
+        text += " or not a flammable liquid"
     if len(possible) > 1:
-        text = " or ".join(words(c) for c in possible)
-        text = text[0].upper() + text[1:] + f" (most likely {words(cat)})"
-    else:
-        text = words(cat)[0].upper() + words(cat)[1:]
+        text += f" (most likely {'not a flammable liquid' if cat is None else cat})"
     if cat is not None:
         text += f" — {ghs.HAZARD_STATEMENTS[cat][0]}"
-    result.labels["flammable_category"] = Label(text, Provenance("rule", method="ghs-flammable-liquid", note=note),
+    kind = inherited_kind(fp, tb)
+    result.labels["flammable_category"] = Label(text, Provenance(kind, method="ghs-flammable-liquid", note=note),
                                                 cat)
     result.labels["flammable_category_range"] = Label(
         ", ".join("none" if c is None else str(c) for c in possible),
-        Provenance("rule", method="ghs-flammable-liquid", note=note), tuple(possible))
+        Provenance(kind, method="ghs-flammable-liquid", note=note), tuple(possible))
     if not entry.hazard_statements or entry.path == "<command line>":
         return  # nothing declared, nothing to disagree with
     message = ghs.check_declared_statements(entry.hazard_statements, cat, rng.categories,
@@ -178,7 +202,8 @@ def _category(entry: Entry, fp: Value | None, tb: Value | None, result: FireResu
 def _band(tb: Value, T: float, note: str) -> Label:
     band = bands.volatility_band(tb.value, T)
     basis = f"{note}; from the {tb.kind} boiling point"
-    return Label(f"{band} volatility", Provenance("rule", method="coshh-volatility-band", note=basis), band)
+    return Label(f"{band} volatility", Provenance(inherited_kind(tb), method="coshh-volatility-band", note=basis),
+                 band)
 
 
 def _vapor_structure(mol: Chem.Mol | None) -> VaporStructure | None:
@@ -192,7 +217,8 @@ def _vapor_structure(mol: Chem.Mol | None) -> VaporStructure | None:
 
 
 def fire_values(entry: Entry, mol: Chem.Mol | None, values: dict[str, Value], dominant_force: str | None,
-                store_temperature: Value, process_temperature: Value | None = None) -> FireResult:
+                store_temperature: Value, process_temperature: Value | None = None,
+                state_facts: dict | None = None, liquid_possible: bool = True) -> FireResult:
     """Everything about evaporation and fire that follows from the values derived so far."""
     result = FireResult()
     tb = values.get("boiling_point")
@@ -213,13 +239,13 @@ def fire_values(entry: Entry, mol: Chem.Mol | None, values: dict[str, Value], do
         svc = exposure.saturated_vapor_concentration_ppm(p20.value)
         unc = svc * p20.uncertainty / p20.value if p20.uncertainty else None
         result.values["saturated_vapor_concentration_20C"] = Value(
-            svc, "ppm", Provenance("rule", method="saturated-vapor-concentration",
+            svc, "ppm", Provenance(inherited_kind(p20), method="saturated-vapor-concentration",
                                    note=f"from the vapor pressure at 20 °C ({p20.kind})"), unc)
         oel = entry.properties.get("exposure_limit")
         if oel is not None:
             result.values["vapor_hazard_ratio"] = Value(
                 exposure.vapor_hazard_ratio(svc, oel.value), "dimensionless",
-                Provenance("rule", method="vapor-hazard-ratio", note=f"exposure limit from {oel.provenance.source}"))
+                Provenance(inherited_kind(p20), method="vapor-hazard-ratio", note=f"exposure limit from {oel.provenance.source}"))
     if mm is not None and 0.0 < mm.value / 1000.0 <= exposure.MAX_MOLAR_MASS:  # outside: not a vapor
         result.values["vapor_density_relative"] = Value(
             exposure.relative_vapor_density(mm.value / 1000.0), "dimensionless",
@@ -229,14 +255,18 @@ def fire_values(entry: Entry, mol: Chem.Mol | None, values: dict[str, Value], do
         result.values["flash_point"] = fp
     if fp_estimate is not None and fp_estimate is not fp:
         result.values["flash_point_estimate"] = fp_estimate
-    _category(entry, fp, tb, result)
+    if liquid_possible:  # UN GHS ch. 2.6 applies to liquids only (builder/derive/state.py)
+        _category(entry, fp, tb, result)
     if tb is not None:
         result.labels["volatility_band"] = _band(tb, bands.ROOM_TEMPERATURE, "at 20 °C")
         if process_temperature is not None:
             result.labels["volatility_band_process"] = _band(
                 tb, process_temperature.value, f"at the process temperature {celsius_text(process_temperature.value, 0)}")
-    result.notes = handling.evaluate_rules(_facts(entry, mol, values, result, dominant_force, store_temperature),
-                                           formats=NOTE_FORMATS)
+    facts = _facts(entry, mol, values, result, dominant_force, store_temperature)
+    facts.update(state_facts or {})
+    if process_temperature is not None:
+        facts["process_temperature"] = process_temperature.value
+    result.notes = handling.evaluate_rules(facts, formats=NOTE_FORMATS)
     return result
 
 

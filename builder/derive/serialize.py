@@ -6,6 +6,7 @@ conditions, and provenance (kind plus source or method).
 from __future__ import annotations
 
 from builder.core.quantities import DERIVED_QUANTITIES
+from builder.core.values import Provenance
 from builder.derive.entry import Derived
 
 def profile_values() -> tuple[str, ...]:
@@ -21,9 +22,59 @@ def identity_json(d: Derived) -> dict:
     return {"smiles": ident.smiles, "formula": ident.formula, "inchi": ident.inchi, "inchikey": ident.inchikey}
 
 
+def physical_state_json(d: Derived) -> dict | None:
+    """``{"value", "alternatives", "text", "provenance", "at_store"}`` of the state at 20 °C, or None."""
+    lab = d.label("physical_state")
+    if lab is None:
+        return None
+    out = {"value": lab.code, "alternatives": list(d.label("physical_state_range").code), "text": lab.text,
+           "provenance": lab.provenance.as_dict()}
+    store = d.label("physical_state_store")
+    if store is not None:
+        out["at_store_temperature"] = {"value": store.code, "text": store.text,
+                                       "provenance": store.provenance.as_dict()}
+    return out
+
+
+#: derived physical-hazard classes: label key → (class name, category/group → H-code)
+_HAZARD_CLASSES = (
+    ("flammable_category", "flammable-liquid", lambda c: {1: "H224", 2: "H225", 3: "H226", 4: "H227"}.get(c)),
+    ("flammable_gas_category", "flammable-gas", lambda c: {"1A": "H220", "1B": "H221", "2": "H221"}.get(c)),
+    ("gas_under_pressure", "gas-under-pressure", lambda c: "H281" if c == "refrigerated liquefied" else "H280"),
+)
+
+
+def hazard_classes_json(d: Derived) -> list[dict]:
+    """Every derived physical-hazard class: ``{"class", "category", "h_code", "text", "provenance"}``."""
+    out = []
+    for key, name, code in _HAZARD_CLASSES:
+        lab = d.label(key)
+        if lab is None or lab.code is None:
+            continue
+        out.append({"class": name, "category": str(lab.code), "h_code": code(lab.code), "text": lab.text,
+                    "provenance": lab.provenance.as_dict()})
+    return out
+
+
+def hazard_alerts_json(d: Derived) -> list[dict]:
+    """``[{id, family, text, severity, source, atoms, provenance}]``: atoms index the canonical SMILES
+    (``identity.smiles``), the structure the drawing shows."""
+    prov = Provenance("rule", method="hazard-alerts")
+    return [{**a.as_dict(), "provenance": {**prov.as_dict(), "note": a.source}} for a in d.hazard_alerts]
+
+
+def storage_json(d: Derived) -> dict | None:
+    """The storage group (its label) and every class the material carries for the compatibility rules."""
+    lab = d.label("storage_group")
+    if lab is None or d.storage is None:
+        return None
+    return {**lab.as_dict(), "classes": list(d.storage.classes)}
+
+
 def profile_json(d: Derived) -> dict:
     """The profile object: identity, forces, key values, category, band and handling notes."""
     out = identity_json(d)
+    out["physical_state"] = physical_state_json(d)
     for name in profile_values():
         if d.get(name) is not None:
             out[name] = d.get(name).as_dict()
@@ -37,7 +88,12 @@ def profile_json(d: Derived) -> dict:
     for band in ("volatility_band", "volatility_band_process"):
         if d.label(band) is not None:
             out[band] = d.label(band).as_dict()
+    out["hazard_classes"] = hazard_classes_json(d)
+    if d.get("boiling_point") is None and d.label("boiling_point_missing") is not None:
+        out["boiling_point_missing"] = d.label("boiling_point_missing").as_dict()
     out["handling_notes"] = [n.as_dict() for n in d.notes]
+    out["hazard_alerts"] = hazard_alerts_json(d)
+    out["storage_group"] = storage_json(d)
     return out
 
 
@@ -58,6 +114,10 @@ def entry_json(d: Derived, links=()) -> dict:
                           "provenance": {"kind": a.provenance, "source": a.source}}
     if d.forces is not None:
         out["forces"] = d.forces.as_dict()
+    out["physical_state"] = physical_state_json(d)
+    out["hazard_classes"] = hazard_classes_json(d)
     out["handling_notes"] = [n.as_dict() for n in d.notes]
+    out["hazard_alerts"] = hazard_alerts_json(d)
+    out["storage_group"] = storage_json(d)
     out["links"] = [{"relation": link.relation, "target": link.target, "why": link.why} for link in links]
     return out

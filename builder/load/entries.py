@@ -16,6 +16,7 @@ import stat
 from pathlib import Path
 
 from builder.chem.identity import parse_smiles
+from builder.chem.storage import default_table
 from builder.core.diagnostics import Diagnostic, errors
 from builder.core.model import (
     PROVENANCE_OF_SOURCE,
@@ -251,9 +252,25 @@ def _read_locations(doc: Document) -> tuple[dict[str, Location], list[Diagnostic
             if q:
                 tmax = Value(q[0], "K", Provenance("rule", method="site-store-rating",
                                                    note=f"rating of store '{key}' in locations.yaml"))
+        groups = r.text_list(item, kp + ("allowed_groups",))
+        known = default_table().group_ids
+        for i, group in enumerate(groups):
+            if group not in known:
+                close = difflib.get_close_matches(group, list(known), n=1)
+                r.error(kp + ("allowed_groups", i), f"unknown storage group '{group}'",
+                        f"did you mean '{close[0]}'?" if close else f"one of: {', '.join(known)}")
+        vmax = None
+        if item.get("max_flammable_liquid_volume") is not None:
+            q = r.quantity(item["max_flammable_liquid_volume"], kp + ("max_flammable_liquid_volume",), "volume",
+                           0.0, label="max_flammable_liquid_volume", possible=(0.0, 1e5))
+            if q:
+                vmax = Value(q[0], "m**3", Provenance("rule", method="site-store-limit",
+                                                      note=f"limit of store '{key}' in locations.yaml"))
+        lines = {k: doc.where(kp + (k,), at_key=True)[0] for k in ("allowed_groups", "max_flammable_liquid_volume")
+                 if item.get(k) is not None}
         if name:
             locations[key] = Location(key, name, r.text(item, kp + ("description",)), tmax,
-                                      doc.where(kp, at_key=True)[0])
+                                      doc.where(kp, at_key=True)[0], tuple(groups), vmax, frozen_map(lines))
     return locations, r.problems
 
 
@@ -458,6 +475,11 @@ def load_entry(path: str, text: str, sources: dict, locations: dict) -> tuple[En
     for i, code in enumerate(hazards):
         if not re.match(fmt.HAZARD_PATTERN, code):
             r.error(("hazard_statements", i), f"'{code}' is not a GHS hazard statement code", "e.g. H225")
+    hazard_source = r.text(data, ("hazard_source",))
+    if hazard_source is not None and hazard_source not in sources:
+        close = difflib.get_close_matches(hazard_source, list(sources), n=1)
+        r.error(("hazard_source",), f"unknown source '{hazard_source}'",
+                f"did you mean '{close[0]}'?" if close else "add it to entries/sources.yaml")
     catalog = _read_catalog(r, data.get("catalog"), locations)
     properties = {}
     props = data.get("properties")
@@ -478,7 +500,9 @@ def load_entry(path: str, text: str, sources: dict, locations: dict) -> tuple[En
         return None, r.problems
     entry = Entry(entry_id, path, name, etype, r.text_list(data, ("synonyms",)), cas, smiles, hazards,
                   r.text(data, ("notes",)), catalog, frozen_map(_in_format_order(properties)), antoine,
-                  frozen_map(lines), declared_formula=formula, declared_molar_mass=molar_mass)
+                  frozen_map(lines), declared_formula=formula, declared_molar_mass=molar_mass,
+                  hazard_provenance=(Provenance(PROVENANCE_OF_SOURCE[sources[hazard_source].kind],
+                                                source=hazard_source) if hazard_source else None))
     return entry, r.problems
 
 

@@ -28,7 +28,7 @@ class FieldSpec:
     """A top-level or ``catalog`` field of an entry: what it holds and a line of help.
 
     ``kind`` is one of: text, choice (one of ``choices``), text_list, cas, smiles, formula,
-    hazard_list, quantity (of ``dimension``), location_list, catalog, properties.
+    hazard_list, source (a key of sources.yaml), quantity (of ``dimension``), location_list, catalog, properties.
     """
 
     kind: str
@@ -49,6 +49,7 @@ ENTRY_FIELDS: dict[str, FieldSpec] = {
     "molar_mass": FieldSpec("quantity", "declared molar mass, e.g. 46.07 g/mol; cohesion check compares it "
                                         "with the SMILES", dimension="molar_mass"),
     "hazard_statements": FieldSpec("hazard_list", "GHS hazard statement codes, e.g. [H225, H319]"),
+    "hazard_source": FieldSpec("source", "the key of entries/sources.yaml the hazard statements come from"),
     "notes": FieldSpec("text", "free text shown on the datasheet"),
     "catalog": FieldSpec("catalog", "site-specific facts: code, locations, storage limits, owner"),
     "properties": FieldSpec("properties", "stated property values, each with its source"),
@@ -85,7 +86,7 @@ ANTOINE_HELP = {
     "note": "free text",
 }
 SOURCE_KEYS = ("title", "kind", "year", "edition", "authors", "publisher", "note")
-LOCATION_KEYS = ("name", "description", "max_store_temperature")
+LOCATION_KEYS = ("name", "description", "max_store_temperature", "allowed_groups", "max_flammable_liquid_volume")
 #: provenance kinds an entry may state for a value it gives
 STATED_KINDS = ("measured", "literature", "supplier")
 

@@ -84,6 +84,9 @@ def _field(spec: fmt.FieldSpec) -> dict:
     kind = spec.kind
     if kind == "text" or kind == "smiles":
         out = dict(_TEXT)
+    elif kind == "source":
+        out = _source()
+        out["description"] = spec.help
     elif kind == "choice":
         out = {"type": "string", "enum": list(spec.choices)}
     elif kind == "text_list":

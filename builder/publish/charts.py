@@ -7,6 +7,9 @@ shape and line style as well as a colour from the Okabe–Ito palette (Okabe & I
 Entry text on a chart (material names, series titles) is drawn as plain text: never
 parsed as matplotlib math (``$...$``), bidi controls shown as ``[U+XXXX]``.
 
+Point names are placed without overlap and inside the axes (``place_labels``); a name with no
+free place is left off the chart, and the page's table beside each chart lists every point.
+
 Contents: ``boiling_vs_mass_svg``, ``series_svg`` (catalog-wide charts; the per-entry vapor-pressure
 chart is drawn directly as SVG by ``svgchart.py``).
 """
@@ -18,6 +21,7 @@ import matplotlib
 
 matplotlib.use("Agg")
 import matplotlib.pyplot as plt  # noqa: E402
+from matplotlib.transforms import Bbox  # noqa: E402
 
 from builder.core.units import celsius  # noqa: E402
 from builder.publish.textsafe import visible  # noqa: E402
@@ -48,12 +52,50 @@ def _svg(fig) -> str:
     return buf.getvalue()
 
 
-def boiling_vs_mass_svg(points, alkane_line) -> str:
-    """Boiling point (°C) against molar mass, one marker shape per dominant force.
+#: where a label may sit relative to its point (offset points), tried in this order
+_OFFSETS = ((5, 4), (5, -10), (-5, 4), (-5, -10), (0, 8), (0, -14), (9, -3), (-9, -3))
 
-    ``points``: (label, molar_mass, boiling_point_K, force, estimated) tuples;
-    ``alkane_line``: (molar_mass, boiling_point_K) pairs of the n-alkanes for reference.
+
+def _overlaps(a, b, pad: float = 1.0) -> bool:
+    return not (a.x1 + pad <= b.x0 or b.x1 + pad <= a.x0 or a.y1 + pad <= b.y0 or b.y1 + pad <= a.y0)
+
+
+def place_labels(fig, ax, items, fontsize: float = 6.5, avoid=()) -> list[str]:
+    """Name points without overlap: each label (in ``items`` order) goes to the first place of
+    ``_OFFSETS`` where it stays inside the axes and clear of every label placed so far, every
+    marker and each box of ``avoid`` (display coordinates, e.g. the legend); a label with no
+    free place is left off.  Returns the labels left off (the chart's table lists every point).
+
+    ``items``: (label, x, y) in data coordinates.
     """
+    fig.canvas.draw()
+    renderer = fig.canvas.get_renderer()
+    frame = ax.get_window_extent(renderer)
+    marker = 4.0  # half a marker's size in display units (s=42 points², about 6.5 pt across)
+    markers = [ax.transData.transform((x, y)) for _, x, y in items]
+    taken = list(avoid)
+    taken += [Bbox.from_extents(px - marker, py - marker, px + marker, py + marker) for px, py in markers]
+    left_off = []
+    for label, x, y in items:
+        placed = False
+        for dx, dy in _OFFSETS:
+            text = ax.annotate(visible(label), (x, y), textcoords="offset points", xytext=(dx, dy),
+                               fontsize=fontsize, color="#333333", parse_math=False,
+                               ha="left" if dx > 0 else "right" if dx < 0 else "center")
+            box = text.get_window_extent(renderer)
+            inside = frame.x0 <= box.x0 and box.x1 <= frame.x1 and frame.y0 <= box.y0 and box.y1 <= frame.y1
+            if inside and not any(_overlaps(box, other) for other in taken):
+                taken.append(box)
+                placed = True
+                break
+            text.remove()
+        if not placed:
+            left_off.append(label)
+    return left_off
+
+
+def boiling_vs_mass_figure(points, alkane_line):
+    """The figure of ``boiling_vs_mass_svg`` and the labels left off it for want of room."""
     fig, ax = plt.subplots(figsize=(7.0, 4.6))
     if alkane_line:
         xs, ys = zip(*alkane_line)
@@ -71,31 +113,58 @@ def boiling_vs_mass_svg(points, alkane_line) -> str:
             ax.scatter([p[1] for p in sub], [celsius(p[2]) for p in sub], marker=marker, s=42,
                        facecolors="none" if estimated else colour, edgecolors=colour, linewidths=1.3,
                        label=f"{label}{' (estimated bp)' if estimated else ''}", zorder=3)
-    for label, mass, tb, _, _ in points:
-        ax.annotate(visible(label), (mass, celsius(tb)), textcoords="offset points", xytext=(4, 3), fontsize=6.5,
-                    color="#333333", parse_math=False)
     ax.set_xlabel("Molar mass (g/mol)")
     ax.set_ylabel("Normal boiling point (°C)")
     if points:
         top = max(p[1] for p in points)
         ax.set_xlim(0, top * 1.12)
+        ax.margins(y=0.08)
     ax.grid(True, color="#dddddd", linewidth=0.6)
-    ax.legend(loc="upper left", fontsize=7.5, frameon=False)
+    legend = ax.legend(loc="upper left", fontsize=7.5, frameon=False)
+    fig.canvas.draw()
+    avoid = [legend.get_window_extent(fig.canvas.get_renderer())]
+    # keep names off the n-alkane line too: a small box at each of its points (display units)
+    line = [ax.transData.transform((m, celsius(tb))) for m, tb in alkane_line]
+    for (x0, y0), (x1, y1) in zip(line, line[1:]):
+        steps = max(1, int(max(abs(x1 - x0), abs(y1 - y0)) / 2.0))  # a box every 2 display units
+        for k in range(steps + 1):
+            px, py = x0 + (x1 - x0) * k / steps, y0 + (y1 - y0) * k / steps
+            avoid.append(Bbox.from_extents(px - 1.0, py - 1.0, px + 1.0, py + 1.0))
+    # lightest first: the crowded low-mass corner gets its places before the sparse heavy end
+    items = sorted(((p[0], p[1], celsius(p[2])) for p in points), key=lambda t: (t[1], t[2], t[0]))
+    left_off = place_labels(fig, ax, items, avoid=avoid)
+    return fig, left_off
+
+
+def boiling_vs_mass_svg(points, alkane_line) -> str:
+    """Boiling point (°C) against molar mass, one marker shape per dominant force; names where
+    there is room for them (``place_labels``), every point in the page's table.
+
+    ``points``: (label, molar_mass, boiling_point_K, force, estimated) tuples;
+    ``alkane_line``: (molar_mass, boiling_point_K) pairs of the n-alkanes for reference.
+    """
+    fig, _ = boiling_vs_mass_figure(points, alkane_line)
     return _svg(fig)
 
 
-def series_svg(title: str, points) -> str:
-    """Boiling point along a homologous series: ``points`` are (label, carbons, boiling_point_K)."""
+def series_figure(title: str, points):
+    """The figure of ``series_svg`` and the labels left off it."""
     fig, ax = plt.subplots(figsize=(5.0, 3.4))
     xs = [p[1] for p in points]
     ys = [celsius(p[2]) for p in points]
     ax.plot(xs, ys, marker="o", color="#0072B2", linewidth=1.2)
-    for label, x, y in zip((p[0] for p in points), xs, ys):
-        ax.annotate(visible(label), (x, y), textcoords="offset points", xytext=(4, -10), fontsize=7,
-                    parse_math=False)
     ax.set_xlabel("Carbon atoms")
     ax.set_ylabel("Normal boiling point (°C)")
     ax.set_xticks(sorted(set(xs)))
     ax.set_title(visible(title), fontsize=9, parse_math=False)
     ax.grid(True, color="#dddddd", linewidth=0.6)
+    # room inside the axes for the names, so none sits on an axis line
+    ax.margins(x=0.25, y=0.2)
+    left_off = place_labels(fig, ax, [(p[0], x, y) for p, x, y in zip(points, xs, ys)], fontsize=7)
+    return fig, left_off
+
+
+def series_svg(title: str, points) -> str:
+    """Boiling point along a homologous series: ``points`` are (label, carbons, boiling_point_K)."""
+    fig, _ = series_figure(title, points)
     return _svg(fig)

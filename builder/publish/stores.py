@@ -10,6 +10,7 @@ Rules (our own wording; the criteria are the GHS category and flash/boiling poin
 """
 from __future__ import annotations
 
+from builder.chem.storage import default_table, flammable_volume, grouped_conflicts, store_conflicts
 from builder.core.model import Catalog
 from builder.core.units import celsius_text
 from builder.derive.entry import Derived
@@ -25,7 +26,7 @@ def conflicts(d: Derived, rated_K: float | None) -> list[str]:
     if fp is not None and rated_K >= fp.value:
         out.append(f"store reaches the flash point ({celsius_text(fp.value, 0)}{', estimated' if fp.kind == 'estimated' else ''})")
     if bp is not None and rated_K >= bp.value - BOILING_MARGIN_K:
-        out.append(f"store within {BOILING_MARGIN_K:.0f} K of the boiling point ({celsius_text(bp.value, 0)}): pressure build-up")
+        out.append(f"store within {BOILING_MARGIN_K:.0f}\u00a0K of the boiling point ({celsius_text(bp.value, 0)}): pressure build-up")
     return out
 
 
@@ -55,4 +56,35 @@ def store_sheet(catalog: Catalog, derived: tuple[Derived, ...], key: str) -> dic
     if n_conflicts:
         notes.append(f"{n_conflicts} material{'s' if n_conflicts != 1 else ''} can reach a flash point or boiling "
                      "point at the store's rated temperature (see the last column).")
-    return {"loc": loc, "members": [(d, conflicts(d, rated)) for d in members], "store_notes": notes}
+    return {"loc": loc, "members": [(d, conflicts(d, rated)) for d in members], "store_notes": notes,
+            "compat": store_compatibility(catalog, derived, key)}
+
+
+def store_compatibility(catalog: Catalog, derived, key: str) -> dict:
+    """Which of a store's materials should not share it (builder/data/storage_compatibility.yaml) and
+    the store's own limits (locations.yaml): ``separate`` and ``apart`` (lists of
+    ``builder.chem.storage.Conflict``), ``limits`` (sentences), ``count`` (keep-separate pairs plus
+    limits exceeded: what the by-store page shows), ``names`` (id -> name), ``source``."""
+    loc = catalog.locations[key]
+    members = [d for d in derived if key in d.entry.catalog.locations and getattr(d, "storage", None) is not None]
+    pairs = store_conflicts([(d.entry.id, d.storage) for d in members])
+    table = default_table()
+    limits = []
+    if loc.allowed_groups:
+        allowed = ", ".join(table.names[g].lower() for g in loc.allowed_groups)
+        for d in members:
+            if d.storage.group not in loc.allowed_groups:
+                limits.append(f"{d.entry.name} ({d.storage.name.lower()}) is not in a group this store is "
+                              f"meant for ({allowed}).")
+    if loc.max_flammable_liquid_volume is not None:
+        limit_l = loc.max_flammable_liquid_volume.value * 1000.0
+        total, counted, uncounted = flammable_volume((d.entry.id, d.storage, d.entry.catalog.container)
+                                                     for d in members)
+        if total > limit_l:
+            limits.append(f"At least {total:g} L of flammable liquid is kept here, more than the store's limit of "
+                          f"{limit_l:g} L.")
+    separate = [c for c in pairs if c.outcome == "keep-separate"]
+    return {"separate": separate, "apart": [c for c in pairs if c.outcome == "keep-apart"], "limits": limits,
+            "separate_grouped": grouped_conflicts(separate),
+            "count": len(separate) + len(limits), "names": {d.entry.id: d.entry.name for d in members},
+            "source": table.source}

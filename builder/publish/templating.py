@@ -7,24 +7,32 @@ site works from a web server and straight from disk (file://).
 from __future__ import annotations
 
 import json
+import os
 import posixpath
+import shutil
 from pathlib import Path
 
 import jinja2
 from markupsafe import Markup
 
 from builder import __version__
-from builder.core.methods import METHODS
+from builder.chem.storage import OUTCOME_TEXT
+from builder.chem.ghs import HAZARD_STATEMENTS
+from builder.core.methods import METHODS, plain_name
 from builder.core.quantities import DERIVED_QUANTITIES
 from builder.core.quantities import STATED_PROPERTIES as PROPERTIES
 from builder.core.units import format_value
 from builder.core.values import KINDS, Label
 from builder.derive.fire import NOTES_DISCLAIMER
 from builder.derive.forces import FORCE_WORDS
+from builder.publish.stores import store_compatibility
 from builder.publish.textsafe import short_path, visible
-from builder.publish.views import card_rows, table_rows
+from builder.publish.views import bands_in_numeric_order, card_notes, card_rows, health_codes, table_rows
 
 TEMPLATES = Path(__file__).resolve().parents[2] / "templates"
+
+#: the GHS flammable-liquid categories (chem/ghs.py), then None for 'not classified'
+FLAMMABLE_CATEGORIES = (*sorted(HAZARD_STATEMENTS), None)
 
 #: compact marks for provenance kinds, explained in the legend of every page
 KIND_MARKS = {"measured": "M", "literature": "L", "supplier": "S", "computed": "C",
@@ -42,7 +50,17 @@ def _boiling_validation() -> dict | None:
     """The stored results of ``python -m builder.fitting.boiling`` (not typed in by hand)."""
     if not VALIDATION_PATH.exists():
         return None
-    return json.loads(VALIDATION_PATH.read_text(encoding="utf-8"))
+    return bands_in_numeric_order(json.loads(VALIDATION_PATH.read_text(encoding="utf-8")))
+
+
+def _stored_validation(name: str) -> dict | None:
+    """A stored validation table of builder/data (melting_validation.json, boiling_small_validation.json,
+    flammability_validation.json), written by the fitting and report commands, never by hand."""
+    path = VALIDATION_PATH.parent / name
+    if not path.exists():
+        return None
+    data = json.loads(path.read_text(encoding="utf-8"))
+    return bands_in_numeric_order(data) if "bands" in data else data
 
 
 def environment(templates: Path = TEMPLATES) -> jinja2.Environment:
@@ -58,12 +76,17 @@ def environment(templates: Path = TEMPLATES) -> jinja2.Environment:
         finalize=visible_output,
     )
     env.filters["formula"] = formula_markup
-    env.globals.update(KIND_MARKS=KIND_MARKS, KINDS=KINDS, CAUTION=CAUTION, METHODS=METHODS,
+    env.globals.update(FLAMMABLE_CATEGORIES=FLAMMABLE_CATEGORIES, KIND_MARKS=KIND_MARKS, KINDS=KINDS, CAUTION=CAUTION, METHODS=METHODS,
                        version=__version__, property_label=property_label, condition_text=condition_text,
                        temperature_text=temperature_text, FORCE_WORDS=FORCE_WORDS, first_sentence=first_sentence,
                        NOTES_DISCLAIMER=NOTES_DISCLAIMER,
-                       table_rows=table_rows, card_rows=card_rows,
-                       is_label=lambda v: isinstance(v, Label), boiling_validation=_boiling_validation())
+                       table_rows=table_rows, card_rows=card_rows, plain_name=plain_name,
+                       card_notes=card_notes, health_codes=health_codes,
+                       store_compatibility=store_compatibility, OUTCOME_TEXT=OUTCOME_TEXT,
+                       is_label=lambda v: isinstance(v, Label), boiling_validation=_boiling_validation(),
+                       melting_validation=_stored_validation("melting_validation.json"),
+                       small_validation=_stored_validation("boiling_small_validation.json"),
+                       limits_validation=_stored_validation("flammability_validation.json"))
     return env
 
 
@@ -147,15 +170,49 @@ def first_sentence(text: str) -> str:
 
 
 class Writer:
-    """Renders pages into ``out`` and remembers what was written."""
+    """Renders pages into ``out`` and remembers what was written.
 
-    def __init__(self, env: jinja2.Environment, out: Path):
+    With ``previous`` (the site being replaced) and its ``previous_keys`` (site path → key of
+    what the file was made from), a file whose key is unchanged is not made again: the old
+    file is linked into the new folder (the same file, not rewritten). ``keys`` collects the
+    keys of this build, for the next one.
+    """
+
+    def __init__(self, env: jinja2.Environment, out: Path, previous: Path | None = None,
+                 previous_keys: dict | None = None):
         self.env = env
         self.out = out
+        self.previous = previous
+        self.previous_keys = previous_keys or {}
         self.written: list[str] = []
+        self.keys: dict[str, str] = {}
+        self.reused = 0
 
-    def page(self, path: str, template: str, **context) -> None:
+    def reuse(self, path: str, key: str | None) -> bool:
+        """Link the last build's file at ``path`` if it was made from ``key``; True when it did."""
+        if key is None:
+            return False
+        self.keys[path] = key
+        if self.previous is None or self.previous_keys.get(path) != key:
+            return False
+        old = self.previous / path
+        if old.is_symlink() or not old.is_file():
+            return False
+        target = self.out / path
+        target.parent.mkdir(parents=True, exist_ok=True)
+        try:
+            os.link(old, target)
+        except OSError:
+            shutil.copyfile(old, target)
+        self.written.append(path)
+        self.reused += 1
+        return True
+
+    def page(self, path: str, template: str, key: str | None = None, **context) -> None:
+        """Render ``template`` to ``path``; with a ``key``, only when the key differs from the last build's."""
         path = short_path(path)
+        if self.reuse(path, key):
+            return
 
         def url(target: str) -> str:
             return relative(path, target)
@@ -163,10 +220,18 @@ class Writer:
         root = relative(path, "index.html")[: -len("index.html")]
         text = self.env.get_template(template).render(url=url, value_link=value_link, page_path=path, root=root,
                                                       **context)
-        self.text(path, text)
+        self._write(path, text)
 
     def text(self, path: str, text: str) -> None:
+        self._write(short_path(path), text)
+
+    def made(self, path: str, key: str, make) -> None:
+        """Write ``make()`` to ``path`` unless the last build made it from the same ``key``."""
         path = short_path(path)
+        if not self.reuse(path, key):
+            self._write(path, make())
+
+    def _write(self, path: str, text: str) -> None:
         target = self.out / path
         target.parent.mkdir(parents=True, exist_ok=True)
         with open(target, "w", encoding="utf-8", newline="\n") as fh:

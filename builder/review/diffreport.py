@@ -8,6 +8,10 @@ its range, volatility band, vapor pressures, handling notes, cross-links), old �
 Values are compared as a person reads them (the text of the datasheet), so a change
 below the shown precision is not reported.
 
+An added entry is shown with its derived summary (force, boiling and flash point, category,
+band, handling notes); entries whose only change is their cross-links get one line each; the
+``cohesion check`` findings of every added or changed entry (at the head revision) are listed.
+
 ``markdown(report)`` renders it for a pull request; ``report.as_dict()`` is the JSON form.
 Entries that fail to load at a revision are listed with their diagnostics, not compared.
 Read-only git calls (``git show``, ``git ls-tree``, ``git merge-base``); nothing is written
@@ -29,6 +33,9 @@ from builder.derive.links import cross_links
 from builder.load.entries import entry_files, read_bibliography, read_entries
 
 MAIN_BRANCHES = ("main", "master")
+#: what the report shows of an added entry (snapshot keys, in this order)
+ADDED_SUMMARY = ("dominant_force", "boiling_point", "flash_point", "flammable_category", "volatility_band",
+                 "handling_notes")
 
 _IDENTITY_FIELDS = {
     "name": "name", "cas": "CAS RN", "smiles": "SMILES (as entered)", "formula": "formula",
@@ -45,7 +52,7 @@ def compared() -> list:
 def fields() -> dict[str, str]:
     """Compared fields in report order: key → label.  ``stated:*`` rows come from the entry file."""
     return {**_IDENTITY_FIELDS, **{q.key: q.review for q in compared()},
-            "handling_notes": "handling notes", "links": "cross-links"}
+            "handling_notes": "handling notes", "hazard_alerts": "hazard alerts", "links": "cross-links"}
 
 
 class GitProblem(Exception):
@@ -107,7 +114,9 @@ def snapshot(d: Derived, links=()) -> dict[str, str]:
         out[f"stated:{name}"] = f"{value.text()} [{value.provenance.source}]" + (f" ({cond})" if cond else "")
     if e.antoine is not None:
         a = e.antoine
-        out["stated:antoine"] = (f"{a.form}, A {a.A:g}, B {a.B:g}, C {a.C:g} ({a.pressure_unit}, {a.temperature_unit}),"
+        # "A = …" so that the coefficient C is not read as degrees Celsius
+        out["stated:antoine"] = (f"{a.form}, A = {a.A:g}, B = {a.B:g}, C = {a.C:g} (P in {a.pressure_unit}, "
+                                 f"T in {a.temperature_unit}),"
                                  f" {celsius_text(a.t_min, 1, unit=False)} to {celsius_text(a.t_max, 1)} [{a.source}]")
     for q in compared():
         if q.is_label:
@@ -116,6 +125,7 @@ def snapshot(d: Derived, links=()) -> dict[str, str]:
         elif d.get(q.key) is not None:
             out[q.key] = f"{d.get(q.key).text()} ({d.get(q.key).kind})"
     out["handling_notes"] = ", ".join(sorted(n.id for n in d.notes))
+    out["hazard_alerts"] = ", ".join(sorted(a.id for a in getattr(d, "hazard_alerts", ())))
     out["links"] = ", ".join(f"{link.relation} {link.target}" for link in links)
     return {k: v for k, v in out.items() if v}
 
@@ -146,6 +156,8 @@ class Revision:
     names: dict[str, str]
     failed: set[str]
     diagnostics: list[Diagnostic]
+    #: entry id → what ``cohesion check`` finds for it at this revision (plausibility and derive findings)
+    findings: dict[str, list[Diagnostic]] = field(default_factory=dict)
 
 
 @dataclass
@@ -158,15 +170,22 @@ class Report:
     names: dict[str, str] = field(default_factory=dict)
     not_compared: dict[str, str] = field(default_factory=dict)  # id → why
     problems: dict[str, list[Diagnostic]] = field(default_factory=dict)  # revision label → diagnostics
+    added_summary: dict[str, list[tuple[str, str, str]]] = field(default_factory=dict)  # id → (key, label, text)
+    links_only: list[str] = field(default_factory=list)  # changed ids whose only change is the cross-links
+    findings: dict[str, list[Diagnostic]] = field(default_factory=dict)  # id → check findings at head
 
     def as_dict(self) -> dict:
         return {
             "base": self.base, "head": self.head,
-            "added": [{"id": i, "name": n} for i, n in self.added],
+            "added": [{"id": i, "name": n, "summary": [{"field": k, "label": label, "value": text}
+                                                      for k, label, text in self.added_summary.get(i, [])]}
+                      for i, n in self.added],
             "removed": [{"id": i, "name": n} for i, n in self.removed],
             "changed": [{"id": i, "name": self.names.get(i, i),
                          "changes": [{"field": k, "label": _label(k), "old": old, "new": new} for k, old, new in rows]}
                         for i, rows in self.changed.items()],
+            "links_only": list(self.links_only),
+            "findings": {i: [d.as_dict() for d in diags] for i, diags in sorted(self.findings.items())},
             "not_compared": [{"id": i, "why": why} for i, why in sorted(self.not_compared.items())],
             "problems": {rev: [d.as_dict() for d in diags] for rev, diags in self.problems.items()},
         }
@@ -174,12 +193,18 @@ class Report:
 
 def _revision(entries_dir: Path, label: str) -> Revision:
     from builder.derive.catalog import derive_catalog
+    from builder.review.plausibility import check_catalog
 
     catalog, diags, failed = load_tolerant(entries_dir, label)
     derived = derive_catalog(catalog)
     links = cross_links(derived)
     snaps = {d.entry.id: snapshot(d, links.get(d.entry.id, ())) for d in derived}
-    return Revision(label, snaps, {e.id: e.name for e in catalog.entries}, failed, diags)
+    by_path = {e.path: e.id for e in catalog.entries}
+    findings: dict[str, list[Diagnostic]] = {}
+    for diag in sorted(check_catalog(catalog, derived) + [f for d in derived for f in d.findings]):
+        if diag.path in by_path:
+            findings.setdefault(by_path[diag.path], []).append(diag)
+    return Revision(label, snaps, {e.id: e.name for e in catalog.entries}, failed, diags, findings)
 
 
 def compare(base: Revision, head: Revision) -> Report:
@@ -197,6 +222,9 @@ def compare(base: Revision, head: Revision) -> Report:
         old, new = base.snapshots.get(eid), head.snapshots.get(eid)
         if old is None:
             report.added.append((eid, head.names[eid]))
+            report.added_summary[eid] = [(k, _label(k), new[k]) for k in ADDED_SUMMARY if k in new]
+            if head.findings.get(eid):
+                report.findings[eid] = head.findings[eid]
         elif new is None:
             report.removed.append((eid, base.names[eid]))
         else:
@@ -204,6 +232,10 @@ def compare(base: Revision, head: Revision) -> Report:
                     if old.get(k) != new.get(k)]
             if rows:
                 report.changed[eid] = rows
+                if {k for k, _, _ in rows} == {"links"}:
+                    report.links_only.append(eid)
+                if head.findings.get(eid):
+                    report.findings[eid] = head.findings[eid]
     return report
 
 
@@ -243,6 +275,22 @@ def _cell(text: str | None) -> str:
     return "—" if text is None else text.replace("|", "\\|")
 
 
+def _entries(n: int) -> str:
+    return f"{n} entry" if n == 1 else f"{n} entries"
+
+
+def _link_change(old: str | None, new: str | None) -> str:
+    """A cross-link change in one line: what was added and what was dropped."""
+    before = set(filter(None, (old or "").split(", ")))
+    after = set(filter(None, (new or "").split(", ")))
+    parts = []
+    if after - before:
+        parts.append("added " + "; ".join(sorted(after - before)))
+    if before - after:
+        parts.append("dropped " + "; ".join(sorted(before - after)))
+    return ", ".join(parts) or "reordered"
+
+
 def markdown(report: Report) -> str:
     """The report as Markdown for a pull request description."""
     n = len(report.added) + len(report.removed) + len(report.changed)
@@ -250,18 +298,34 @@ def markdown(report: Report) -> str:
     if not n and not report.not_compared:
         lines.append("No entry changes what the catalog shows.")
     summary = [f"{len(report.added)} added", f"{len(report.removed)} removed", f"{len(report.changed)} changed"]
+    if report.links_only:
+        summary[-1] += f" ({len(report.links_only)} in cross-links only)"
     if report.not_compared:
         summary.append(f"{len(report.not_compared)} not compared")
     if n or report.not_compared:
-        lines += [", ".join(summary) + ".", ""]
-    if report.added:
-        lines += ["**Added:** " + ", ".join(f"`{i}` ({name})" for i, name in report.added), ""]
+        lines += [f"{_entries(n + len(report.not_compared))}: " + ", ".join(summary) + ".", ""]
+    for eid, name in report.added:
+        lines += [f"#### Added: `{eid}` — {name}", ""]
+        lines += [f"- {label}: {_cell(text)}" for _, label, text in report.added_summary.get(eid, [])]
+        lines.append("")
     if report.removed:
         lines += ["**Removed:** " + ", ".join(f"`{i}` ({name})" for i, name in report.removed), ""]
     for eid, rows in report.changed.items():
+        if eid in report.links_only:
+            continue
         lines += [f"#### `{eid}` — {report.names.get(eid, eid)}", "", "| | before | after |", "|---|---|---|"]
         lines += [f"| {_label(k)} | {_cell(old)} | {_cell(new)} |" for k, old, new in rows]
         lines.append("")
+    if report.links_only:
+        lines += ["**Cross-links only:**", ""]
+        lines += [f"- `{eid}` ({report.names.get(eid, eid)}): {_link_change(rows[0][1], rows[0][2])}"
+                  for eid, rows in report.changed.items() if eid in report.links_only]
+        lines.append("")
+    if report.findings:
+        n_findings = sum(len(v) for v in report.findings.values())
+        lines += [f"**`cohesion check` findings** for the added and changed entries ({n_findings}):", "", "```"]
+        lines += [str(d) for eid in sorted(report.findings) for d in report.findings[eid]]
+        lines += ["```", ""]
     if report.not_compared:
         lines += ["**Not compared** (fix the entry, then run again):", ""]
         lines += [f"- `{i}`: {why}" for i, why in sorted(report.not_compared.items())]

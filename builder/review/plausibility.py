@@ -17,8 +17,10 @@ declared formula ≠ SMILES             warning   element counts compared (order
 declared molar mass ≠ SMILES          warning   more than ``MOLAR_MASS_TOLERANCE`` g/mol apart
 same InChIKey in two entries          error     at the ``smiles`` line of the later entry (by id)
 source cited nowhere                  warning   at the source's line in sources.yaml
+hazard statements without a source    warning   no ``hazard_source``
 vapor pressure outside Antoine range  warning   its temperature outside the entry's t_min..t_max
 vapor pressure far from Antoine       warning   more than ``ANTOINE_TOLERANCE`` off, inside range
+store conflicts and store limits      warning   ``builder/review/storecheck.py`` (its own table)
 ====================================  ========  ==============================================
 
 The boiling point's 3σ residual and the hazard-statement contradiction are found while
@@ -37,8 +39,9 @@ from builder.chem.identity import formula_counts, identify
 from builder.core.diagnostics import Diagnostic
 from builder.core.model import Catalog, Entry
 from builder.core.units import celsius_text
-from builder.derive.entry import Derived
+from builder.derive.entry import Derived, derive_entry
 from builder.derive.fire import antoine_of
+from builder.review.storecheck import check_stores, locations_path, store_mates
 
 #: a stated vapor pressure further than this (relative) from the entry's own Antoine equation is doubtful
 ANTOINE_TOLERANCE = 0.25
@@ -171,7 +174,19 @@ def _vapor_pressure(d: Derived) -> list[Diagnostic]:
     return []
 
 
-def _duplicates(catalog: Catalog) -> list[Diagnostic]:
+def _hazard_source(d: Derived) -> list[Diagnostic]:
+    e = d.entry
+    if e.hazard_statements and e.hazard_provenance is None:
+        return [_diag(e, "hazard_statements", "warning", "hazard statements name no source",
+                      "add 'hazard_source:' with a key of entries/sources.yaml (the supplier's SDS, "
+                      "a harmonised classification)")]
+    return []
+
+
+def _duplicates(catalog: Catalog, named: set[str] | None = None) -> list[Diagnostic]:
+    """Same InChIKey twice: an error at the later entry's ``smiles`` line (by id).  When only the
+    files ``named`` (paths) are checked and the later entry is not one of them, the error stands at
+    the earlier, named entry instead, so a per-file check lets through nothing the build rejects."""
     out = []
     first: dict[str, Entry] = {}
     for e in catalog.entries:  # sorted by id: the later entry gets the error
@@ -184,8 +199,10 @@ def _duplicates(catalog: Catalog) -> list[Diagnostic]:
         if not key:
             continue
         if key in first:
-            out.append(_diag(e, "smiles", "error",
-                             f"same structure (InChIKey {key}) as entry '{first[key].id}' ({first[key].path})",
+            earlier = first[key]
+            at, other = (earlier, e) if named is not None and e.path not in named else (e, earlier)
+            out.append(_diag(at, "smiles", "error",
+                             f"same structure (InChIKey {key}) as entry '{other.id}' ({other.path})",
                              "merge the two entries or correct one structure"))
         else:
             first[key] = e
@@ -198,6 +215,8 @@ def _cited_sources(catalog: Catalog) -> set[str]:
         cited |= {v.provenance.source for v in e.properties.values() if v.provenance.source}
         if e.antoine is not None:
             cited.add(e.antoine.source)
+        if e.hazard_provenance is not None:
+            cited.add(e.hazard_provenance.source)
         # a key named in free text (e.g. "hazard statements from source clp-annex-vi") counts as cited
         texts = [e.notes or ""] + [v.provenance.note or "" for v in e.properties.values()]
         cited |= {key for key in catalog.sources
@@ -228,8 +247,12 @@ def check_files(entries_dir: Path, named: Catalog, derived) -> list[Diagnostic]:
     """Plausibility diagnostics for the files of ``named`` (and sources.yaml), cross-checked
     against the whole entries folder."""
     whole = whole_catalog(entries_dir, named)
-    shown = {e.path for e in named.entries} | {sources_path(named)}
-    return [d for d in check_catalog(whole, derived) if d.path in shown]
+    paths = {e.path for e in named.entries}
+    shown = paths | {sources_path(named), locations_path(named)}
+    # the store checks need the storage groups of every material sharing a store with a checked one
+    mates = [derive_entry(e, {k: whole.locations[k] for k in e.catalog.locations if k in whole.locations})
+             for e in store_mates(whole, derived)]
+    return [d for d in check_catalog(whole, derived, named=paths, others=mates) if d.path in shown]
 
 
 def _uncited(catalog: Catalog) -> list[Diagnostic]:
@@ -239,10 +262,14 @@ def _uncited(catalog: Catalog) -> list[Diagnostic]:
             for key, s in catalog.sources.items() if key not in cited]
 
 
-def check_catalog(catalog: Catalog, derived) -> list[Diagnostic]:
-    """Every plausibility diagnostic for ``catalog`` (per-entry checks over ``derived``), sorted."""
+def check_catalog(catalog: Catalog, derived, named: set[str] | None = None, others=()) -> list[Diagnostic]:
+    """Every plausibility diagnostic for ``catalog`` (per-entry checks over ``derived``), sorted;
+    ``named``: the paths being checked, when only some files are (see ``_duplicates``)."""
     out: list[Diagnostic] = []
     for d in derived:
-        out += _temperatures(d) + _density(d) + _identity(d) + _vapor_pressure(d)
-    out += _duplicates(catalog) + _uncited(catalog)
+        out += _temperatures(d) + _density(d) + _identity(d) + _vapor_pressure(d) + _hazard_source(d)
+    out += _duplicates(catalog, named) + _uncited(catalog)
+    # store compatibility and limits (builder/review/storecheck.py); ``others``: derived store-mates
+    # of the checked entries that take part without being checked themselves
+    out += check_stores(catalog, list(derived) + list(others), named)
     return sorted(out)

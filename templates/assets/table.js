@@ -12,11 +12,17 @@
   var filters = Array.prototype.slice.call(controls.querySelectorAll("select[data-filter]"));
   var text = controls.querySelector("input[data-filter-text]");
 
+  // "any text in the row": what the row shows (force, category, stores ...) plus what it
+  // leaves out (synonyms, CAS RN, InChIKey, store keys) from data-q
+  var haystacks = rows.map(function (row) {
+    return (row.getAttribute("data-q") + " " + row.textContent).replace(/\s+/g, " ").toLowerCase();
+  });
+
   function apply() {
-    var q = (text.value || "").trim().toLowerCase();
+    var q = (text.value || "").trim().replace(/\s+/g, " ").toLowerCase();
     var shown = 0;
-    rows.forEach(function (row) {
-      var ok = !q || row.getAttribute("data-q").indexOf(q) !== -1;
+    rows.forEach(function (row, i) {
+      var ok = !q || haystacks[i].indexOf(q) !== -1;
       filters.forEach(function (sel) {
         var want = sel.value;
         if (!want) { return; }
