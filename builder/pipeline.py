@@ -16,7 +16,13 @@ from typing import TYPE_CHECKING
 
 from builder.core.cache import Cache, code_version, key_of, settings_key
 from builder.core.diagnostics import CatalogError, Diagnostic
-from builder.core.output import guard_target, read_marker, replace_folder, tidy, write_marker
+from builder.core.output import (
+    guard_target,
+    read_marker,
+    replace_folder,
+    tidy,
+    write_marker,
+)
 from builder.publish.revision import Revision, entries_revision
 
 if TYPE_CHECKING:  # the stages themselves are imported when needed: an up-to-date site needs none of them
@@ -68,13 +74,14 @@ def build(entries_dir: Path, out: Path, waiting_message=None, jobs: int | None =
     guard_target(Path(out), protect=(entries_dir,))
     revision = entries_revision(entries_dir)
     key = inputs_key(entries_dir, revision) if entries_dir.is_dir() else None
-    if key is not None and cache is not None and cache.root is not None:
-        summary = read_marker(Path(out))
-        if summary and summary.get("inputs") == key:
+    caching = cache is not None and cache.root is not None
+    summary = read_marker(Path(out)) if caching else None
+    if key is not None and summary:
+        if summary.get("inputs") == key:
             tidy(Path(out), waiting_message)
             diags = tuple(Diagnostic(**d) for d in summary.get("diagnostics", []))
             return BuiltSite(None, None, diags, tuple(summary.get("files", ())), summary.get("entries", 0), True)
-    from builder.derive.catalog import derive_catalog
+    from builder.derive.catalog import available_cpus, derive_catalog
     from builder.load.entries import load_catalog
     from builder.publish.site import render_site
     from builder.review.plausibility import check_catalog
@@ -90,10 +97,14 @@ def build(entries_dir: Path, out: Path, waiting_message=None, jobs: int | None =
     if any(d.severity == "error" for d in all_diags):
         raise CatalogError(list(all_diags))
     with replace_folder(Path(out), protect=(entries_dir,), waiting_message=waiting_message) as tmp:
+        keys: dict[str, str] = {}
+        previous_keys = summary.get("pages") if summary and isinstance(summary.get("pages"), dict) else None
         pages = render_site(catalog, derived, tmp, all_diags, revision,
-                            progress=lambda d, t: progress("render", d, t))
+                            progress=lambda d, t: progress("render", d, t),
+                            previous=Path(out).resolve() if previous_keys else None, previous_keys=previous_keys,
+                            keys=keys, cache=cache, jobs=available_cpus() if jobs is None else jobs)
         write_marker(tmp, {"inputs": key, "entries": len(derived), "files": sorted(pages),
-                           "diagnostics": [d.as_dict() for d in all_diags]})
+                           "diagnostics": [d.as_dict() for d in all_diags], "pages": keys})
     return BuiltSite(catalog, derived, all_diags, tuple(pages), len(derived))
 
 

@@ -158,7 +158,7 @@ def test_disk_errors_end_in_a_message_and_leave_the_site(make_entries, tmp_path,
     def full(self, path, text):
         raise OSError(errno.ENOSPC, os.strerror(errno.ENOSPC), str(self.out / path))
 
-    monkeypatch.setattr(render.Writer, "text", full)
+    monkeypatch.setattr(render.Writer, "_write", full)
     assert _build(folder, out) == 4
     err = capsys.readouterr().err
     assert "No space left on device" in err and "untouched" in err and "Traceback" not in err

@@ -53,19 +53,29 @@ class Link:
     why: str
 
 
-@lru_cache(maxsize=4096)
+@lru_cache(maxsize=1)
+def _group_patterns() -> tuple:
+    return tuple(Chem.MolFromSmarts(s) for s in FUNCTIONAL_GROUPS.values())
+
+
+@lru_cache(maxsize=16384)
 def structure_class(smiles: str) -> tuple:
     """A key shared by members of one homologous series."""
     mol = Chem.MolFromSmiles(smiles)
-    groups = tuple(len(mol.GetSubstructMatches(Chem.MolFromSmarts(s))) for s in FUNCTIONAL_GROUPS.values())
+    groups = tuple(len(mol.GetSubstructMatches(p)) for p in _group_patterns())
     hetero = tuple(sorted(Counter(a.GetSymbol() for a in mol.GetAtoms() if a.GetSymbol() not in ("C", "H")).items()))
     branches = sum(1 for a in mol.GetAtoms() if a.GetSymbol() == "C" and a.GetDegree() >= 3 and not a.GetIsAromatic())
     return (mol.GetRingInfo().NumRings(), groups, hetero, branches)
 
 
+@lru_cache(maxsize=16384)
+def _element_counts(formula: str) -> dict:
+    return formula_counts(formula)[0]
+
+
 def ch2_difference(formula_a: str, formula_b: str) -> int | None:
     """n when formula_b = formula_a + n·CH2 (n may be negative), else None."""
-    a, b = formula_counts(formula_a)[0], formula_counts(formula_b)[0]
+    a, b = _element_counts(formula_a), _element_counts(formula_b)
     diff = {el: b.get(el, 0) - a.get(el, 0) for el in set(a) | set(b)}
     n = diff.get("C", 0)
     if n == 0 or diff.get("H", 0) != 2 * n or any(v for el, v in diff.items() if el not in ("C", "H")):
@@ -88,23 +98,73 @@ def _celsius(kelvin: float) -> str:
 
 
 def cross_links(derived: tuple[Derived, ...]) -> dict[str, tuple[Link, ...]]:
-    """Every entry's links, in a stable order (relation, then target id)."""
+    """Every entry's links, in a stable order (relation, then target id).
+
+    Only pairs that can be related are looked at (same formula, same structure class, or
+    molar masses within ``CONTRAST_MASS_RATIO``), so the work grows about linearly with the
+    catalog rather than with the square of its size; the links are those of comparing
+    every pair.
+    """
     links: dict[str, list[Link]] = {d.entry.id: [] for d in derived}
     molecules = [d for d in derived if d.identity is not None and d.identity.fragments == 1]
-    for i, a in enumerate(molecules):
-        for b in molecules[i + 1:]:
-            for x, y in ((a, b), (b, a)):
-                link = _pair_link(x, y)
-                if link:
-                    links[x.entry.id].extend(link)
-    with_bp = [d for d in derived if _bp(d) is not None]
-    for d in with_bp:
-        others = sorted((abs(_bp(o) - _bp(d)), o.entry.id, o) for o in with_bp if o is not d)
-        for _, oid, o in others[:NEAR_BP_COUNT]:
+    position = {id(d): i for i, d in enumerate(molecules)}
+    candidates: set[tuple[int, int]] = set()
+
+    def pairs_within(groups: dict) -> None:
+        for members in groups.values():
+            for i, a in enumerate(members):
+                for b in members[i + 1:]:
+                    candidates.add((position[id(a)], position[id(b)]))
+
+    by_formula: dict[str, list] = {}
+    by_class: dict[tuple, list] = {}
+    for d in molecules:
+        by_formula.setdefault(d.identity.formula, []).append(d)
+        by_class.setdefault(structure_class(d.identity.smiles), []).append(d)
+    pairs_within(by_formula)
+    pairs_within(by_class)
+    by_mass = sorted(molecules, key=lambda d: d.identity.molar_mass)
+    for i, a in enumerate(by_mass):
+        if _force(a) is None:
+            continue
+        for b in by_mass[i + 1:]:
+            if b.identity.molar_mass - a.identity.molar_mass > CONTRAST_MASS_RATIO * b.identity.molar_mass:
+                break
+            if _force(b) is not None and _force(b) != _force(a):
+                candidates.add(tuple(sorted((position[id(a)], position[id(b)]))))
+    for i, j in sorted(candidates):
+        a, b = molecules[i], molecules[j]
+        for x, y in ((a, b), (b, a)):
+            link = _pair_link(x, y)
+            if link:
+                links[x.entry.id].extend(link)
+    with_bp = sorted(((_bp(d), d.entry.id, d) for d in derived if _bp(d) is not None), key=lambda t: (t[0], t[1]))
+    for k, (bp, _, d) in enumerate(with_bp):
+        for _, oid, o in _nearest(with_bp, k, NEAR_BP_COUNT):
             links[d.entry.id].append(Link("near-bp", oid, f"boils at {_celsius(_bp(o))}, near this "
-                                                           f"material's {_celsius(_bp(d))}"))
+                                                           f"material's {_celsius(bp)}"))
     order = {"isomer": 0, "homologue": 1, "contrast": 2, "near-bp": 3}
     return {k: tuple(sorted(v, key=lambda l: (order[l.relation], l.target))) for k, v in links.items()}
+
+
+def _nearest(ordered: list, k: int, count: int) -> list:
+    """The ``count`` items of ``ordered`` (sorted by boiling point) nearest item ``k``, ties by id."""
+    bp = ordered[k][0]
+    left, right, found = k - 1, k + 1, []
+    while left >= 0 or right < len(ordered):
+        gap_left = bp - ordered[left][0] if left >= 0 else float("inf")
+        gap_right = ordered[right][0] - bp if right < len(ordered) else float("inf")
+        gap = min(gap_left, gap_right)
+        if len(found) >= count and gap > found[count - 1][0]:
+            break
+        if gap_left <= gap_right:
+            found.append((gap_left, ordered[left][1], ordered[left][2]))
+            left -= 1
+        else:
+            found.append((gap_right, ordered[right][1], ordered[right][2]))
+            right += 1
+        found.sort(key=lambda t: (t[0], t[1]))
+    return found[:count]
 
 
 def _pair_link(a: Derived, b: Derived) -> list[Link]:
@@ -112,8 +172,9 @@ def _pair_link(a: Derived, b: Derived) -> list[Link]:
     fa, fb = a.identity.formula, b.identity.formula
     if fa == fb:
         out.append(Link("isomer", b.entry.id, f"same formula {fa}"))
-    n = ch2_difference(fa, fb)
-    if n is not None and structure_class(a.identity.smiles) == structure_class(b.identity.smiles):
+    same_class = structure_class(a.identity.smiles) == structure_class(b.identity.smiles)
+    n = ch2_difference(fa, fb) if same_class else None
+    if n is not None:
         more = "more" if n > 0 else "fewer"
         out.append(Link("homologue", b.entry.id, f"same structure class, {abs(n)} CH2 unit{'s' if abs(n) > 1 else ''} "
                                                   f"{more}"))

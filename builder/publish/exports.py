@@ -28,6 +28,40 @@ def safe_json(data, indent: int | None = None) -> str:
     return text.replace("<", "\\u003c").replace(">", "\\u003e").replace("&", "\\u0026")
 
 
+def entry_part(d: Derived, links) -> str:
+    """One entry's JSON text (``entry_json``, safe, sorted keys, indent 1) at nesting depth 0.
+
+    ``catalog.json`` and ``data/<id>.json`` are put together from these parts, so an entry
+    that did not change is not serialised again (the parts are cached by the build).
+    """
+    return safe_json(entry_json(d, links), indent=1)
+
+
+def _at_depth(part: str, depth: int) -> str:
+    """JSON text made with indent 1 at depth 0, as it stands nested ``depth`` levels deep."""
+    pad = " " * depth
+    return "\n".join(pad + line for line in part.split("\n"))
+
+
+def _head() -> str:
+    return f'{{\n "builder_version": {json.dumps(__version__)},\n'
+
+
+def _tail() -> str:
+    return f' "format": {json.dumps(FORMAT)},\n "format_version": {FORMAT_VERSION}\n}}\n'
+
+
+def catalog_json_from_parts(parts: list[str]) -> str:
+    """``catalog.json`` from each entry's ``entry_part``: the same bytes as ``catalog_json``."""
+    entries = ' "entries": []' if not parts else ' "entries": [\n' + ",\n".join(_at_depth(p, 2) for p in parts) + "\n ]"
+    return _head() + entries + ",\n" + _tail()
+
+
+def entry_file_json_from_part(part: str) -> str:
+    """``data/<id>.json`` from the entry's ``entry_part``: the same bytes as ``entry_file_json``."""
+    return _head() + ' "entry": ' + _at_depth(part, 1).lstrip(" ") + ",\n" + _tail()
+
+
 def catalog_json(derived: tuple[Derived, ...], links: dict) -> str:
     data = {"format": FORMAT, "format_version": FORMAT_VERSION, "builder_version": __version__,
             "entries": [entry_json(d, links.get(d.entry.id, ())) for d in derived]}

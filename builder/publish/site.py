@@ -5,18 +5,23 @@ swaps that folder into place.
 """
 from __future__ import annotations
 
+import multiprocessing
+from concurrent.futures import ProcessPoolExecutor
 from pathlib import Path
 
 from builder.chem.forces import n_alkane_boiling_point
 from builder.chem.identity import depict_svg, formula_counts
+from builder.core.cache import Cache, code_version, key_of, settings_key
 from builder.core.model import Catalog
+from builder.derive.catalog import derive_key
 from builder.derive.entry import Derived
 from builder.derive.forces import FORCE_WORDS
 from builder.derive.links import Link, cross_links, homologous_series
 from builder.publish import charts, exports, svgchart
 from builder.publish.revision import Revision
 from builder.publish.stores import store_sheet
-from builder.publish.templating import TEMPLATES, Writer, environment, revision_text
+from builder.publish.templating import FLAMMABLE_CATEGORIES, TEMPLATES, Writer, environment, revision_text
+from builder.publish.textsafe import short_path
 
 
 def _uses(catalog: Catalog, derived) -> tuple[dict, dict]:
@@ -45,7 +50,7 @@ def _groups(catalog: Catalog, derived) -> dict:
     """Entries grouped for the index pages: by dominant force, by store, by possible category."""
     forces: dict[str, list] = {k: [] for k in FORCE_WORDS}
     stores: dict[str, list] = {k: [] for k in catalog.locations}
-    categories: dict[str, list] = {k: [] for k in ("1", "2", "3", "4", "none")}
+    categories: dict[str, list] = {"none" if c is None else str(c): [] for c in FLAMMABLE_CATEGORIES}
     for d in derived:
         force = d.label("dominant_force")
         if force is not None:
@@ -60,7 +65,8 @@ def _groups(catalog: Catalog, derived) -> dict:
             "unstored": [d for d in derived if not d.entry.catalog.locations]}
 
 
-def _catalog_charts(derived) -> tuple[str, list]:
+def _catalog_charts(derived, writer: Writer, base: str) -> tuple[str, list]:
+    """Write the catalog-wide charts, each made again only when the data it plots changes."""
     points = []
     for d in derived:
         bp, mm = d.get("boiling_point"), d.get("molar_mass")
@@ -70,76 +76,178 @@ def _catalog_charts(derived) -> tuple[str, list]:
     masses = [p[1] for p in points] or [100.0]
     top = max(min(max(masses) * 1.1, 366.0), 30.0)  # the n-alkane table starts at methane (16 g/mol)
     alkane = [(m, n_alkane_boiling_point(m)) for m in [16.05 + i * (top - 16.05) / 60 for i in range(61)]]
-    main_chart = charts.boiling_vs_mass_svg(points, alkane)
+    writer.made("charts/boiling-vs-mass.svg", key_of(base, "chart", repr(points), repr(alkane)),
+                lambda: charts.boiling_vs_mass_svg(points, alkane))
     series_charts = []
     for i, series in enumerate(homologous_series(derived)):
         pts = [(d.entry.name, formula_counts(d.identity.formula)[0]["C"], d.get("boiling_point").value)
                for d in series if d.get("boiling_point") is not None]
         title = " → ".join(d.entry.name for d in series)
-        series_charts.append((f"series-{i + 1}.svg", title, series, charts.series_svg(title, pts)))
-    return main_chart, series_charts
+        name = f"series-{i + 1}.svg"
+        writer.made(f"charts/{name}", key_of(base, "series", title, repr(pts)),
+                    lambda title=title, pts=pts: charts.series_svg(title, pts))
+        series_charts.append((name, title, series, None))
+    return "charts/boiling-vs-mass.svg", series_charts
 
 
 def render_site(catalog: Catalog, derived: tuple[Derived, ...], out: Path, diagnostics=(),
-                revision: Revision | None = None, progress=None) -> list[str]:
-    """Write every page of the site into the (empty) folder ``out``; ``progress(done, total)`` per datasheet."""
+                revision: Revision | None = None, progress=None, previous: Path | None = None,
+                previous_keys: dict | None = None, keys: dict | None = None, cache: Cache | None = None,
+                jobs: int = 1) -> list[str]:
+    """Write every page of the site into the (empty) folder ``out``; returns the site paths written.
+
+    Every file is made from a key of what it shows (see ``Writer``): with the site it replaces
+    (``previous``, and the keys that site was made from, ``previous_keys``) unchanged files
+    are linked, not made again. ``keys`` (a dict) receives this build's keys.
+    ``progress(done, total)`` is called per datasheet. ``cache`` keeps each entry's JSON text
+    between builds (the exports are put together from it). ``jobs``: processes that write
+    the datasheets (each writes its own files; the result does not depend on their number).
+    """
+    cache = cache or Cache(None)
     env = environment()
     revision = revision or Revision(None, None, False, {})
     stamp = (f"catalog data of {revision.date[:10]} ({revision.commit[:7]}{', uncommitted changes' if revision.dirty else ''})"
              if revision.commit else "catalog data not under version control")
     env.globals["revision_line"] = lambda entry: (
         f"{revision_text(revision, entry)} · {stamp} · cohesion {env.globals['version']}")
-    writer = Writer(env, out)
+    writer = Writer(env, out, previous, previous_keys)
+    base = key_of("site", code_version(), settings_key(), stamp)
+    entry_keys = {d.entry.id: derive_key(d.entry, {k: catalog.locations[k] for k in d.entry.catalog.locations})
+                  for d in derived}
     for asset in sorted((TEMPLATES / "assets").iterdir()):
         if asset.is_file():
             writer.copy(f"assets/{asset.name}", asset)
     links: dict[str, tuple[Link, ...]] = cross_links(derived)
     by_source, by_method = _uses(catalog, derived)
     by_id = {d.entry.id: d for d in derived}
-    main_chart, series_charts = _catalog_charts(derived)
-    writer.text("charts/boiling-vs-mass.svg", main_chart)
-    for name, _, _, svg in series_charts:
-        writer.text(f"charts/{name}", svg)
-    writer.text("search-index.js", exports.search_index_js(derived))
-    writer.text("catalog.json", exports.catalog_json(derived, links))
-    writer.text("catalog.csv", exports.catalog_csv(derived))
+    # what every catalog-wide page is made from: each entry as derived, its links, the stores and sources
+    whole = key_of(base, "whole", *(f"{k}={v}" for k, v in sorted(entry_keys.items())), repr(sorted(links.items())),
+                   repr(catalog.locations), repr(catalog.sources), repr(tuple(diagnostics)))
+    main_chart, series_charts = _catalog_charts(derived, writer, base)
+    writer.made("search-index.js", whole, lambda: exports.search_index_js(derived))
+    parts = {}
+    for d in derived:
+        mine = links.get(d.entry.id, ())
+        part_key = key_of(base, "json", entry_keys[d.entry.id], repr(mine))
+        part = cache.get("json", part_key)
+        if not isinstance(part, str):
+            part = exports.entry_part(d, mine)
+            cache.put("json", part_key, part)
+        parts[d.entry.id] = (part_key, part)
+    writer.made("catalog.json", whole, lambda: exports.catalog_json_from_parts([parts[d.entry.id][1] for d in derived]))
+    writer.made("catalog.csv", whole, lambda: exports.catalog_csv(derived))
     common = dict(catalog=catalog, derived=derived, by_id=by_id, groups=_groups(catalog, derived))
-    writer.page("index.html", "index.html", **common)
-    writer.page("forces.html", "by_force.html", **common)
-    writer.page("stores.html", "by_store.html", **common)
-    writer.page("categories.html", "by_category.html", **common)
-    writer.page("trends.html", "trends.html", series_charts=series_charts, **common)
-    writer.page("sources.html", "sources.html", sources_used=by_source, **common)
-    writer.page("methods.html", "methods.html", methods_used=by_method, **common)
-    writer.page("build.html", "build.html", diagnostics=diagnostics, revision=revision, **common)
+    writer.page("index.html", "index.html", key=whole, **common)
+    writer.page("forces.html", "by_force.html", key=whole, **common)
+    writer.page("stores.html", "by_store.html", key=whole, **common)
+    writer.page("categories.html", "by_category.html", key=whole, **common)
+    writer.page("trends.html", "trends.html", key=whole, series_charts=series_charts, **common)
+    writer.page("sources.html", "sources.html", key=whole, sources_used=by_source, **common)
+    writer.page("methods.html", "methods.html", key=whole, methods_used=by_method, **common)
+    writer.page("build.html", "build.html", key=key_of(whole, repr(revision)), diagnostics=diagnostics,
+                revision=revision, **common)
     cards_per_page = 8
-    writer.page("cards/all.html", "cards.html", title="whole catalog", cards=derived, per_page=cards_per_page, **common)
+    writer.page("cards/all.html", "cards.html", key=whole, title="whole catalog", cards=derived,
+                per_page=cards_per_page, **common)
     for key, loc in catalog.locations.items():
         members = [d for d in derived if key in d.entry.catalog.locations]
-        writer.page(f"cards/{key}.html", "cards.html", title=loc.name, cards=members, per_page=cards_per_page,
-                    **common)
-        writer.page(f"stores/{key}.html", "store_sheet.html", stamp=stamp, **store_sheet(catalog, derived, key),
-                    **common)
-    for done, d in enumerate(derived):
+        members_key = key_of(base, "store", repr(loc), *(entry_keys[d.entry.id] for d in members))
+        writer.page(f"cards/{key}.html", "cards.html", key=members_key, title=loc.name, cards=members,
+                    per_page=cards_per_page, **common)
+        sheet_key = key_of(members_key, "sheet", whole)  # a store sheet may compare its materials with others
+        if not writer.reuse(short_path(f"stores/{key}.html"), sheet_key):
+            writer.page(f"stores/{key}.html", "store_sheet.html", stamp=stamp, **store_sheet(catalog, derived, key),
+                        **common)
+    job = _EntryFiles(catalog, by_id, links, parts, entry_keys, base, revision, common)
+    chunks = [list(range(i, min(i + _CHUNK, len(derived)))) for i in range(0, len(derived), _CHUNK)]
+    done = 0
+    for written, made_keys, reused in _run_chunks(job, writer, chunks, jobs):
+        writer.written.extend(written)
+        writer.keys.update(made_keys)
+        writer.reused += reused
+        done = min(done + _CHUNK, len(derived))
         if progress:
             progress(done, len(derived))
-        eid = d.entry.id
-        if d.identity is not None:
-            writer.text(f"materials/{eid}.svg", depict_svg(d.identity.smiles))
-        if d.curve:
-            store = d.get("store_temperature")
-            points = []
-            vp = d.entry.properties.get("vapor_pressure")
-            if vp is not None:
-                points.append(("stated value", dict(vp.conditions)["at"], vp.value))
-            writer.text(f"materials/{eid}-vapor.svg", svgchart.vapor_curve_svg(
-                [(s.kind, s.temperatures, s.pressures) for s in d.curve], points, store.value if store else None))
-        writer.text(f"data/{eid}.json", exports.entry_file_json(d, links.get(eid, ())))
-        used = sorted({v.provenance.source for v in d.values.values() if v.provenance.source}
-                      | ({d.entry.antoine.source} if d.entry.antoine else set()))
-        writer.page(f"materials/{eid}.html", "datasheet.html", d=d, links=links.get(eid, ()),
-                    sources=[catalog.sources[k] for k in used if k in catalog.sources],
-                    json_ld=exports.json_ld(d), **common)
     if progress:
         progress(len(derived), len(derived))
+    if keys is not None:
+        keys.update(writer.keys)
     return writer.written
+
+
+def _vapor_chart(d: Derived) -> str:
+    store = d.get("store_temperature")
+    points = []
+    vp = d.entry.properties.get("vapor_pressure")
+    if vp is not None:
+        points.append(("stated value", dict(vp.conditions)["at"], vp.value))
+    return svgchart.vapor_curve_svg([(s.kind, s.temperatures, s.pressures) for s in d.curve], points,
+                                    store.value if store else None)
+
+
+#: entries per task when datasheets are written by several processes
+_CHUNK = 16
+#: (job, Jinja environment) of the running build, for worker processes started by fork (they inherit it)
+_FORKED: tuple | None = None
+
+
+class _EntryFiles:
+    """Everything needed to write one entry's files: drawing, vapor chart, JSON, datasheet."""
+
+    def __init__(self, catalog, by_id, links, parts, entry_keys, base, revision, common):
+        self.catalog, self.by_id, self.links, self.parts = catalog, by_id, links, parts
+        self.entry_keys, self.base, self.revision, self.common = entry_keys, base, revision, common
+        self.derived = common["derived"]
+
+    def write(self, writer: Writer, d: Derived) -> None:
+        catalog, by_id, base = self.catalog, self.by_id, self.base
+        eid = d.entry.id
+        own = self.entry_keys[eid]
+        if d.identity is not None:
+            smiles = d.identity.smiles
+            writer.made(f"materials/{eid}.svg", key_of(base, "drawing", smiles, own),
+                        lambda: depict_svg(smiles, highlight=tuple(sorted({i for a in d.hazard_alerts for i in a.atoms}))))
+        if d.curve:
+            writer.made(f"materials/{eid}-vapor.svg", key_of(base, "vapor", own), lambda: _vapor_chart(d))
+        mine = self.links.get(eid, ())
+        part_key, part = self.parts[eid]
+        writer.made(f"data/{eid}.json", part_key, lambda: exports.entry_file_json_from_part(part))
+        used = sorted({v.provenance.source for v in d.values.values() if v.provenance.source}
+                      | ({d.entry.antoine.source} if d.entry.antoine else set()))
+        sources = [catalog.sources[k] for k in used if k in catalog.sources]
+        sheet_key = key_of(base, "datasheet", own, revision_text(self.revision, d.entry), repr(mine),
+                           repr([(link.target, by_id[link.target].entry.name) for link in mine if link.target in by_id]),
+                           repr([catalog.locations.get(k) for k in d.entry.catalog.locations]), repr(sources))
+        if not writer.reuse(short_path(f"materials/{eid}.html"), sheet_key):
+            writer.page(f"materials/{eid}.html", "datasheet.html", d=d, links=mine, sources=sources,
+                        json_ld=exports.json_ld(d), **self.common)
+
+
+def _run_chunks(job: _EntryFiles, writer: Writer, chunks: list, jobs: int):
+    """(written, keys, reused) per chunk, in chunk order, from ``jobs`` processes or this one."""
+    global _FORKED
+    if jobs > 1 and len(chunks) > 1 and "fork" in multiprocessing.get_all_start_methods():
+        _FORKED = (job, writer.env)
+        try:
+            context = multiprocessing.get_context("fork")
+            with ProcessPoolExecutor(max_workers=min(jobs, len(chunks)), mp_context=context) as pool:
+                tasks = [(c, writer.out, writer.previous, writer.previous_keys) for c in chunks]
+                yield from pool.map(_write_chunk, tasks)
+        finally:
+            _FORKED = None
+    else:
+        for c in chunks:
+            yield _write_entries(job, Writer(writer.env, writer.out, writer.previous, writer.previous_keys), c)
+
+
+def _write_entries(job: _EntryFiles, writer: Writer, indices) -> tuple[list[str], dict, int]:
+    for i in indices:
+        job.write(writer, job.derived[i])
+    return writer.written, writer.keys, writer.reused
+
+
+def _write_chunk(args) -> tuple[list[str], dict, int]:
+    """In a forked worker: write the files of the entries at ``indices`` with a writer of its own."""
+    indices, out, previous, previous_keys = args
+    job, env = _FORKED
+    return _write_entries(job, Writer(env, out, previous, previous_keys), indices)
