@@ -113,6 +113,7 @@ def test_case(name, base_site, tmp_path, monkeypatch, capsys):
     assert _first_error(check_err).group(0) == _first_error(build_err).group(0)
 
 
+@pytest.mark.slow
 @pytest.mark.parametrize("name", IN_SUBPROCESS)
 def test_case_in_a_real_process(name, base_site, tmp_path):
     site, digest = base_site

@@ -196,6 +196,7 @@ def test_huge_structures_are_refused_with_a_reason():
     "".join(["C1CCC(CC1)C(C(C)C)N"] * 18) + "C",  # 199 heavy atoms, rings, branches, stereocentres
     "C" * MAX_3D_ATOMS,  # the largest chain still embedded
 ], ids=["chain-1000", "branched-cyclic-199", "chain-at-3d-limit"])
+@pytest.mark.slow
 def test_profile_of_a_large_structure_finishes_quickly(smiles):
     start = time.perf_counter()
     result = _run(["profile", smiles, "--json"], timeout=60)
@@ -213,6 +214,7 @@ BATCH_SPECIAL = ["", "   ", "\t", "*", "**", "C*", "[H][H]", "not-a-smiles", "C1
 BATCH_SMALL = ["CCO", "CCCC", "CC(=O)C", "c1ccccc1C", "ClCCl", "CCOCC", "O", "CCN(CC)CC", "OCCO", "CC(C)O"]
 
 
+@pytest.mark.slow
 def test_profile_batch_of_2000_lines_reports_bad_lines_and_goes_on():
     """About 8 s on one core (the small molecules repeat, so their 3D work is cached)."""
     lines = [BATCH_SMALL[i % len(BATCH_SMALL)] if i % 10 else BATCH_SPECIAL[(i // 10) % len(BATCH_SPECIAL)]

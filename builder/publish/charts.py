@@ -60,36 +60,68 @@ def _overlaps(a, b, pad: float = 1.0) -> bool:
     return not (a.x1 + pad <= b.x0 or b.x1 + pad <= a.x0 or a.y1 + pad <= b.y0 or b.y1 + pad <= a.y0)
 
 
+class _Boxes:
+    """Boxes already taken on the chart, filed by grid cell so a new box is compared only with its neighbours."""
+
+    CELL = 24.0  # display units
+
+    def __init__(self):
+        self.cells: dict[tuple[int, int], list] = {}
+
+    def _cells(self, box, pad: float = 1.0):
+        c = self.CELL
+        for i in range(int((box.x0 - pad) // c), int((box.x1 + pad) // c) + 1):
+            for j in range(int((box.y0 - pad) // c), int((box.y1 + pad) // c) + 1):
+                yield i, j
+
+    def add(self, box) -> None:
+        for cell in self._cells(box):
+            self.cells.setdefault(cell, []).append(box)
+
+    def hit(self, box) -> bool:
+        return any(_overlaps(box, other) for cell in self._cells(box) for other in self.cells.get(cell, ()))
+
+
 def place_labels(fig, ax, items, fontsize: float = 6.5, avoid=()) -> list[str]:
     """Name points without overlap: each label (in ``items`` order) goes to the first place of
     ``_OFFSETS`` where it stays inside the axes and clear of every label placed so far, every
     marker and each box of ``avoid`` (display coordinates, e.g. the legend); a label with no
     free place is left off.  Returns the labels left off (the chart's table lists every point).
 
-    ``items``: (label, x, y) in data coordinates.
+    ``items``: (label, x, y) in data coordinates. Each label's size is measured once; its box at
+    each candidate place follows from the offset and the alignment.
     """
     fig.canvas.draw()
     renderer = fig.canvas.get_renderer()
     frame = ax.get_window_extent(renderer)
+    scale = fig.dpi / 72.0  # offset points → display units
     marker = 4.0  # half a marker's size in display units (s=42 points², about 6.5 pt across)
-    markers = [ax.transData.transform((x, y)) for _, x, y in items]
-    taken = list(avoid)
-    taken += [Bbox.from_extents(px - marker, py - marker, px + marker, py + marker) for px, py in markers]
+    taken = _Boxes()
+    for box in avoid:
+        taken.add(box)
+    for _, x, y in items:
+        px, py = ax.transData.transform((x, y))
+        taken.add(Bbox.from_extents(px - marker, py - marker, px + marker, py + marker))
     left_off = []
     for label, x, y in items:
-        placed = False
+        px, py = ax.transData.transform((x, y))
+        probe = ax.annotate(visible(label), (x, y), textcoords="offset points", xytext=(0, 0), fontsize=fontsize,
+                            parse_math=False, ha="left")
+        size = probe.get_window_extent(renderer)
+        probe.remove()
+        width, height, rise = size.width, size.height, size.y0 - py
         for dx, dy in _OFFSETS:
-            text = ax.annotate(visible(label), (x, y), textcoords="offset points", xytext=(dx, dy),
-                               fontsize=fontsize, color="#333333", parse_math=False,
-                               ha="left" if dx > 0 else "right" if dx < 0 else "center")
-            box = text.get_window_extent(renderer)
+            ha = "left" if dx > 0 else "right" if dx < 0 else "center"
+            x0 = px + dx * scale - {"left": 0.0, "right": width, "center": width / 2.0}[ha]
+            y0 = py + dy * scale + rise
+            box = Bbox.from_extents(x0, y0, x0 + width, y0 + height)
             inside = frame.x0 <= box.x0 and box.x1 <= frame.x1 and frame.y0 <= box.y0 and box.y1 <= frame.y1
-            if inside and not any(_overlaps(box, other) for other in taken):
-                taken.append(box)
-                placed = True
+            if inside and not taken.hit(box):
+                ax.annotate(visible(label), (x, y), textcoords="offset points", xytext=(dx, dy), fontsize=fontsize,
+                            color="#333333", parse_math=False, ha=ha)
+                taken.add(box)
                 break
-            text.remove()
-        if not placed:
+        else:
             left_off.append(label)
     return left_off
 

@@ -76,7 +76,7 @@ def environment(templates: Path = TEMPLATES) -> jinja2.Environment:
         finalize=visible_output,
     )
     env.filters["formula"] = formula_markup
-    env.globals.update(FLAMMABLE_CATEGORIES=FLAMMABLE_CATEGORIES, KIND_MARKS=KIND_MARKS, KINDS=KINDS, CAUTION=CAUTION, METHODS=METHODS,
+    env.globals.update(use_list=use_list, FLAMMABLE_CATEGORIES=FLAMMABLE_CATEGORIES, KIND_MARKS=KIND_MARKS, KINDS=KINDS, CAUTION=CAUTION, METHODS=METHODS,
                        version=__version__, property_label=property_label, condition_text=condition_text,
                        temperature_text=temperature_text, FORCE_WORDS=FORCE_WORDS, first_sentence=first_sentence,
                        NOTES_DISCLAIMER=NOTES_DISCLAIMER,
@@ -94,6 +94,20 @@ def environment(templates: Path = TEMPLATES) -> jinja2.Environment:
 def value_label(name: str) -> str | None:
     q = DERIVED_QUANTITIES.get(name)
     return q.label if q else None
+
+
+def use_list(uses, url, labels: bool = True) -> Markup:
+    """'Name (what it is used for); …' for the (derived, value name) pairs of a source or a method.
+
+    Written here rather than with a macro per item: at a thousand materials these lists hold
+    tens of thousands of links.
+    """
+    out = []
+    for d, name in uses:
+        href = Markup.escape(url(short_path(f"materials/{d.entry.id}.html")))
+        what = property_label(name).lower() if labels else name.replace("_", " ")
+        out.append(f'<a href="{href}">{Markup.escape(visible(d.entry.name))}</a> ({Markup.escape(what)})')
+    return Markup("; ".join(out))
 
 
 def property_label(name: str) -> str:
