@@ -87,6 +87,8 @@ def reference_rows() -> list[dict]:
             flash = T_flash(rec.cas, method="IEC 60079-20-1 (2010)")
         except Exception:  # noqa: BLE001 - the reference lookup raises for unknown methods/CAS
             flash = None
+        if flash is not None and flash >= rec.tb_K:  # e.g. formaldehyde: the table's value is for a solution
+            flash = None
         rows.append({"cas": rec.cas, "name": rec.name, "smiles": rec.smiles, "tb": rec.tb_K, "flash": flash})
     return rows
 
