@@ -41,6 +41,8 @@ from typing import Any, Iterable
 import yaml
 from rdkit import Chem, rdBase
 
+from builder.chem.datafile import ID_RE, DataFileError
+
 ALERTS_PATH = Path(__file__).resolve().parents[1] / "data" / "hazard_alerts.yaml"
 
 FAMILIES = ("peroxide-former", "polymerizable", "water-reactive", "air-reactive", "oxidizer", "energetic",
@@ -55,20 +57,13 @@ SEVERITIES = ("high", "medium", "info")
 ALERT_KEYS = ("id", "family", "smarts", "h_statements", "min_matches", "hazard_class", "text", "severity",
               "source", "cite")
 REQUIRED = ("id", "family", "text", "severity", "source")
-_ID_RE = re.compile(r"^[a-z0-9]+(-[a-z0-9]+)*$")
+_ID_RE = ID_RE
 _H_RE = re.compile(r"^(EU)?H\d{3}[A-Za-z]{0,2}$")
 
 
-class AlertsError(ValueError):
+class AlertsError(DataFileError):
     """The alerts file is invalid; ``problems`` lists every issue found."""
 
-    def __init__(self, path: str, problems: list[str]) -> None:
-        super().__init__(path, problems)
-        self.path = path
-        self.problems = problems
-
-    def __str__(self) -> str:
-        return "\n".join(f"{self.path}: {p}" for p in self.problems)
 
 
 @dataclass(frozen=True)

@@ -46,7 +46,6 @@ hazard that needs a specific precaution), ``info`` (context).
 
 from __future__ import annotations
 
-import re
 import string
 from dataclasses import dataclass
 from pathlib import Path
@@ -55,6 +54,7 @@ from typing import Any
 import yaml
 
 from builder.chem.constants import T_ZERO_CELSIUS
+from builder.chem.datafile import ID_RE, DataFileError
 
 RULES_PATH = Path(__file__).resolve().parents[1] / "data" / "handling_rules.yaml"
 
@@ -93,20 +93,13 @@ FACTS: dict[str, tuple[type, str]] = {
 COMPARISONS = ("eq", "ne", "lt", "le", "gt", "ge")
 OPERATORS = COMPARISONS + ("in",)
 RULE_KEYS = ("id", "when", "text", "severity", "source")
-_ID_RE = re.compile(r"^[a-z0-9]+(-[a-z0-9]+)*$")
+_ID_RE = ID_RE
 _FILTERS = ("degC",)
 
 
-class RulesError(ValueError):
+class RulesError(DataFileError):
     """The rules file is invalid; ``problems`` lists every issue found."""
 
-    def __init__(self, path: str, problems: list[str]) -> None:
-        super().__init__(path, problems)
-        self.path = path
-        self.problems = problems
-
-    def __str__(self) -> str:
-        return "\n".join(f"{self.path}: {p}" for p in self.problems)
 
 
 @dataclass(frozen=True)

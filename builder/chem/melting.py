@@ -41,7 +41,13 @@ from pathlib import Path
 from rdkit import Chem
 
 from builder.chem.boiling import TreeModel, check_structure, descriptor_row
-from builder.chem.joback import TC_TF_INCREMENT, TF_BASE, joback_groups, joback_tf, to_mol
+from builder.chem.joback import (
+    TC_TF_INCREMENT,
+    TF_BASE,
+    joback_groups,
+    joback_tf,
+    to_mol,
+)
 
 MODEL_PATH = Path(__file__).resolve().parent.parent / "data" / "melting_model.json"
 

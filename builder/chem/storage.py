@@ -31,6 +31,8 @@ from typing import Any, Iterable
 
 import yaml
 
+from builder.chem.datafile import DataFileError
+
 TABLE_PATH = Path(__file__).resolve().parents[1] / "data" / "storage_compatibility.yaml"
 
 OUTCOMES = ("compatible", "keep-apart", "keep-separate")
@@ -43,14 +45,8 @@ OUTCOME_TEXT = {
 _WHEN_KEYS = ("h_statements", "families", "families_high", "flammable_category", "state", "needs_both")
 
 
-class TableError(ValueError):
-    def __init__(self, path: str, problems: list[str]) -> None:
-        super().__init__(path, problems)
-        self.path = path
-        self.problems = problems
-
-    def __str__(self) -> str:
-        return "\n".join(f"{self.path}: {p}" for p in self.problems)
+class TableError(DataFileError):
+    """The storage table is invalid; ``problems`` lists every issue found."""
 
 
 @dataclass(frozen=True)

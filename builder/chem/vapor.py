@@ -36,7 +36,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from builder.chem.constants import P_ATM, R, T_ZERO_CELSIUS  # noqa: F401 (R: re-exported)
+from builder.chem.constants import P_ATM, T_ZERO_CELSIUS, R  # noqa: F401 (R: re-exported)
 
 PRESSURE_UNITS: dict[str, float] = {
     "Pa": 1.0,
