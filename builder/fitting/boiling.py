@@ -324,19 +324,22 @@ def format_table(validation: dict[str, Any]) -> str:
     return "\n".join(lines)
 
 
-def main(argv: list[str] | None = None) -> int:
-    """Run the command; return the exit code (1 if --check finds a difference)."""
-    parser = argparse.ArgumentParser(prog="python -m builder.fitting.boiling", description=__doc__.split("\n")[0])
+def fitting_command(prog: str, description: str, load, fit_model, validate_model, model_path, validation_path,
+                    argv: list[str] | None = None) -> int:
+    """The command line every tree model shares: refit and write, ``--check`` (refit in memory and
+    compare with the shipped files; exit 1 on a difference) or ``--report`` (held-out accuracy of
+    the shipped model). ``validate_model(records, model_dict)`` returns the validation table."""
+    parser = argparse.ArgumentParser(prog=prog, description=description)
     parser.add_argument("--check", action="store_true", help="refit in memory and compare with the files")
     parser.add_argument("--report", action="store_true", help="print held-out accuracy of the shipped model")
     args = parser.parse_args(argv)
-    records = load_records()
+    records = load()
     if args.report:
-        print(format_table(validate(records, TreeModel(json.loads(MODEL_PATH.read_text())))))
+        print(format_table(validate_model(records, json.loads(model_path.read_text()))))
         return 0
-    model = fit(records)
-    validation = validate(records, TreeModel(model))
-    outputs = {MODEL_PATH: dumps(model), VALIDATION_PATH: dumps(validation)}
+    model = fit_model(records)
+    validation = validate_model(records, model)
+    outputs = {model_path: dumps(model), validation_path: dumps(validation)}
     if args.check:
         stale = [p for p, text in outputs.items() if not p.exists() or p.read_text() != text]
         for path in stale:
@@ -346,6 +349,13 @@ def main(argv: list[str] | None = None) -> int:
         path.write_text(text, encoding="utf-8")
     print(format_table(validation))
     return 0
+
+
+def main(argv: list[str] | None = None) -> int:
+    """Run the command; return the exit code (1 if --check finds a difference)."""
+    return fitting_command("python -m builder.fitting.boiling", __doc__.split("\n")[0], load_records, fit,
+                           lambda records, model: validate(records, TreeModel(model)), MODEL_PATH, VALIDATION_PATH,
+                           argv)
 
 
 if __name__ == "__main__":

@@ -25,8 +25,20 @@ import numpy as np
 from rdkit import Chem, RDLogger
 
 from builder.chem.boiling import check_structure
-from builder.chem.boiling_small import FEATURES, MODEL_PATH, small_domain, small_estimate, small_features
-from builder.fitting.boiling import FOLDS, HELD_OUT_PERCENT, _quantile, dumps, split_hash
+from builder.chem.boiling_small import (
+    FEATURES,
+    MODEL_PATH,
+    small_domain,
+    small_estimate,
+    small_features,
+)
+from builder.fitting.boiling import (
+    FOLDS,
+    HELD_OUT_PERCENT,
+    _quantile,
+    dumps,
+    split_hash,
+)
 
 VALIDATION_PATH = MODEL_PATH.parent / "boiling_small_validation.json"
 LAMBDA = 1.0

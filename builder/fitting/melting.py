@@ -16,19 +16,33 @@ rows are never trimmed.  Needs ``chemicals`` and ``lightgbm``.
 """
 from __future__ import annotations
 
-import argparse
-import json
 import math
-import sys
 from typing import Any
 
 from rdkit import Chem, RDLogger
 
 from builder.chem.boiling import TreeModel, check_structure
-from builder.chem.melting import MODEL_PATH, EXTRA_FEATURES, joback_tf_estimate, melting_row, tree_estimate
+from builder.chem.melting import (
+    EXTRA_FEATURES,
+    MODEL_PATH,
+    joback_tf_estimate,
+    melting_row,
+    tree_estimate,
+)
 from builder.fitting.boiling import (
-    BANDS, FOLDS, HELD_OUT_PERCENT, TRIM_SIGMAS, Record, _band_of, _quantile, dumps, environment_vocabulary,
-    export_trees, format_table, name_mismatch, split_hash, validate_rows,
+    BANDS,
+    FOLDS,
+    HELD_OUT_PERCENT,
+    TRIM_SIGMAS,
+    Record,
+    _band_of,
+    _quantile,
+    environment_vocabulary,
+    export_trees,
+    fitting_command,
+    name_mismatch,
+    split_hash,
+    validate_rows,
 )
 
 VALIDATION_PATH = MODEL_PATH.parent / "melting_validation.json"
@@ -130,26 +144,10 @@ def validate(records: list[Record], model: TreeModel) -> dict[str, Any]:
 
 
 def main(argv: list[str] | None = None) -> int:
-    parser = argparse.ArgumentParser(prog="python -m builder.fitting.melting", description=__doc__.split("\n")[0])
-    parser.add_argument("--check", action="store_true", help="refit in memory and compare with the files")
-    parser.add_argument("--report", action="store_true", help="print held-out accuracy of the shipped model")
-    args = parser.parse_args(argv)
-    records = load_records()
-    if args.report:
-        print(format_table(validate(records, TreeModel(json.loads(MODEL_PATH.read_text())))))
-        return 0
-    model = fit(records)
-    validation = validate(records, TreeModel(model))
-    outputs = {MODEL_PATH: dumps(model), VALIDATION_PATH: dumps(validation)}
-    if args.check:
-        stale = [p for p, text in outputs.items() if not p.exists() or p.read_text() != text]
-        for path in stale:
-            print(f"{path}: differs from a fresh fit", file=sys.stderr)
-        return 1 if stale else 0
-    for path, text in outputs.items():
-        path.write_text(text, encoding="utf-8")
-    print(format_table(validation))
-    return 0
+    """Run the command; return the exit code (1 if --check finds a difference)."""
+    return fitting_command("python -m builder.fitting.melting", __doc__.split("\n")[0], load_records, fit,
+                           lambda records, model: validate(records, TreeModel(model)), MODEL_PATH, VALIDATION_PATH,
+                           argv)
 
 
 if __name__ == "__main__":
