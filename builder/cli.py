@@ -50,9 +50,11 @@ class Progress:
         self.shown = True
 
     def close(self) -> None:
+        """Clear the line (once), so what is printed next starts at the left."""
         if self.shown:
             self.stream.write("\r\x1b[K")
             self.stream.flush()
+            self.shown = False
 
 
 def _cache_for(args):
@@ -61,6 +63,17 @@ def _cache_for(args):
     if getattr(args, "no_cache", False):
         return Cache(None)
     return Cache(default_cache_dir(), notes=_say if getattr(args, "verbose", False) else None)
+
+
+def _output_problem(command: str, exc: Exception) -> int:
+    """Say why ``--out`` was refused (exit 2) or could not be written (exit 4)."""
+    from builder.core.output import OutputRefused
+
+    if isinstance(exc, OutputRefused):
+        print(f"cohesion {command}: refusing --out: {exc}", file=sys.stderr)
+        return EXIT_USAGE
+    print(f"cohesion {command}: {exc}", file=sys.stderr)
+    return EXIT_OUTPUT
 
 
 def cmd_build(args) -> int:
@@ -75,12 +88,8 @@ def cmd_build(args) -> int:
     try:
         built = build(Path(args.entries), Path(args.out), waiting_message=_say, jobs=args.jobs, cache=cache,
                       progress=progress)
-    except OutputRefused as exc:
-        print(f"cohesion build: refusing --out: {exc}", file=sys.stderr)
-        return EXIT_USAGE
-    except OutputFailed as exc:
-        print(f"cohesion build: {exc}", file=sys.stderr)
-        return EXIT_OUTPUT
+    except (OutputRefused, OutputFailed) as exc:
+        return _output_problem("build", exc)
     except CatalogError as exc:
         progress.close()
         _print_diagnostics(exc.diagnostics)
@@ -220,12 +229,8 @@ def cmd_print(args) -> int:
     except PrintError as exc:
         print(f"cohesion print: {exc}", file=sys.stderr)
         return EXIT_TOOL
-    except OutputRefused as exc:
-        print(f"cohesion print: refusing --out: {exc}", file=sys.stderr)
-        return EXIT_USAGE
-    except OutputFailed as exc:
-        print(f"cohesion print: {exc}", file=sys.stderr)
-        return EXIT_OUTPUT
+    except (OutputRefused, OutputFailed) as exc:
+        return _output_problem("print", exc)
     print(f"Printed {len(pdfs)} PDF files into {Path(args.out).resolve()}")
     return EXIT_OK
 

@@ -65,8 +65,9 @@ def _groups(catalog: Catalog, derived) -> dict:
             "unstored": [d for d in derived if not d.entry.catalog.locations]}
 
 
-def _catalog_charts(derived, writer: Writer, base: str) -> tuple[str, list]:
-    """Write the catalog-wide charts, each made again only when the data it plots changes."""
+def _catalog_charts(derived, writer: Writer, base: str) -> list:
+    """Write the catalog-wide charts, each made again only when the data it plots changes; returns
+    the homologous series charts as (file name, title, members) for the trends page."""
     points = []
     for d in derived:
         bp, mm = d.get("boiling_point"), d.get("molar_mass")
@@ -86,8 +87,8 @@ def _catalog_charts(derived, writer: Writer, base: str) -> tuple[str, list]:
         name = f"series-{i + 1}.svg"
         writer.made(f"charts/{name}", key_of(base, "series", title, repr(pts)),
                     lambda title=title, pts=pts: charts.series_svg(title, pts))
-        series_charts.append((name, title, series, None))
-    return "charts/boiling-vs-mass.svg", series_charts
+        series_charts.append((name, title, series))
+    return series_charts
 
 
 def render_site(catalog: Catalog, derived: tuple[Derived, ...], out: Path, diagnostics=(),
@@ -123,7 +124,7 @@ def render_site(catalog: Catalog, derived: tuple[Derived, ...], out: Path, diagn
     # what every catalog-wide page is made from: each entry as derived, its links, the stores and sources
     whole = key_of(base, "whole", *(f"{k}={v}" for k, v in sorted(entry_keys.items())), repr(sorted(links.items())),
                    repr(catalog.locations), repr(catalog.sources), repr(tuple(diagnostics)))
-    main_chart, series_charts = _catalog_charts(derived, writer, base)
+    series_charts = _catalog_charts(derived, writer, base)
     writer.made("search-index.js", whole, lambda: exports.search_index_js(derived))
     parts = {}
     for d in derived:

@@ -236,9 +236,6 @@ class Writer:
                                                       **context)
         self._write(path, text)
 
-    def text(self, path: str, text: str) -> None:
-        self._write(short_path(path), text)
-
     def made(self, path: str, key: str, make) -> None:
         """Write ``make()`` to ``path`` unless the last build made it from the same ``key``."""
         path = short_path(path)
