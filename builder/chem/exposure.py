@@ -8,7 +8,8 @@ Contents
 - :func:`vapor_hazard_ratio`: SVC / OEL, Popendorf's vapour hazard ratio [1].
 - :func:`relative_vapor_density`: vapour density relative to air, M/M_air.
 
-All assume ideal-gas vapour. SVC is the concentration in air saturated with
+Units: pressure [Pa], temperature [K], molar mass [g/mol] (as everywhere in the
+catalog). All assume ideal-gas vapour. SVC is the concentration in air saturated with
 the vapour at a given temperature, an upper bound: real workplace
 concentrations are usually far lower (HSE RR923 found exposures to low-
 volatility substances below about 1 % of SVC [3]).
@@ -28,8 +29,20 @@ from __future__ import annotations
 
 from builder.chem.constants import P_ATM, R
 
-M_AIR = 0.0289586
-"""Molar mass of dry air [kg/mol] (Lemmon et al. 2000 [2])."""
+M_AIR = 28.9586
+"""Molar mass of dry air [g/mol] (Lemmon et al. 2000 [2])."""
+
+MIN_MOLAR_MASS = 1.0
+"""Smallest molar mass accepted [g/mol]: below one hydrogen atom (1.008 g/mol), so a value
+under it was given in kg/mol."""
+
+
+def _check_molar_mass(molar_mass: float, largest: float | None = None) -> None:
+    if not molar_mass >= MIN_MOLAR_MASS:
+        raise ValueError(f"molar mass {molar_mass!r} g/mol is below one hydrogen atom; "
+                         "was it given in kg/mol?")
+    if largest is not None and molar_mass > largest:
+        raise ValueError(f"molar mass {molar_mass!r} g/mol is above {largest:g} g/mol: not a vapour")
 
 
 def saturated_vapor_concentration_ppm(psat: float, pressure: float = P_ATM) -> float:
@@ -65,22 +78,28 @@ def saturated_vapor_mass_concentration(psat: float, molar_mass: float, T: float)
 
     .. math:: c = P_{sat} M / (R T)
 
+    with M in kg/mol; the function takes g/mol and divides by 1000.
+
     Parameters
     ----------
     psat : float
         Vapour pressure [Pa].
     molar_mass : float
-        Molar mass [kg/mol].
+        Molar mass [g/mol].
     T : float
         Temperature [K].
 
     Notes
     -----
     Ideal gas. Multiply by 10^6 for mg/m3.
+
+    >>> round(saturated_vapor_mass_concentration(3789.0, 92.14, 298.15), 4)  # toluene, 25 degC
+    0.1408
     """
-    if psat < 0.0 or not (molar_mass > 0.0 and T > 0.0):
-        raise ValueError("need psat >= 0, molar_mass > 0 and T > 0")
-    return psat * molar_mass / (R * T)
+    if psat < 0.0 or not T > 0.0:
+        raise ValueError("need psat >= 0 and T > 0")
+    _check_molar_mass(molar_mass)
+    return psat * (molar_mass / 1000.0) / (R * T)
 
 
 def vapor_hazard_ratio(svc: float, oel: float) -> float:
@@ -100,8 +119,9 @@ def vapor_hazard_ratio(svc: float, oel: float) -> float:
     return svc / oel
 
 
-MAX_MOLAR_MASS = 5.0
-"""Largest molar mass :func:`relative_vapor_density` accepts [kg/mol] (a guard against g/mol)."""
+MAX_MOLAR_MASS = 5000.0
+"""Largest molar mass :func:`relative_vapor_density` accepts [g/mol]: heavier molecules do not
+evaporate (the heaviest liquids that boil undecomposed are far lighter)."""
 
 
 def relative_vapor_density(molar_mass: float) -> float:
@@ -117,13 +137,10 @@ def relative_vapor_density(molar_mass: float) -> float:
     Parameters
     ----------
     molar_mass : float
-        Molar mass [kg/mol].
+        Molar mass [g/mol], from :data:`MIN_MOLAR_MASS` to :data:`MAX_MOLAR_MASS`.
 
-    >>> round(relative_vapor_density(0.09214), 2)  # toluene
+    >>> round(relative_vapor_density(92.14), 2)  # toluene
     3.18
     """
-    if not 0.0 < molar_mass <= MAX_MOLAR_MASS:
-        raise ValueError(
-            f"molar mass {molar_mass!r} kg/mol out of range (0, 5]; was it given in g/mol?"
-        )
+    _check_molar_mass(molar_mass, MAX_MOLAR_MASS)
     return molar_mass / M_AIR

@@ -2,7 +2,7 @@
 ionic character, polar bonds and fragments.
 
 Contents: ``hbond_donors``, ``hbond_acceptors``, ``acceptor_atoms``, ``donor_groups``,
-``ionic_reason``, ``polar_bonds``, ``largest_fragment``.
+``ionic_kind``, ``polar_bonds``, ``largest_fragment``.
 
 Rules (common practice): a donor is an H on N, O or F; an acceptor is an N, O or F lone pair
 (amide, thioamide, sulfonamide and pyrrole-type N excluded; cationic N has none); a bond is
@@ -77,27 +77,32 @@ def donor_groups(mol: Chem.Mol) -> dict[str, int]:
     return groups
 
 
-def ionic_reason(mol: Chem.Mol) -> str | None:
-    """Return why the substance is ionic, or None (rules in the module docstring)."""
+def ionic_kind(mol: Chem.Mol) -> tuple[str, tuple[str, ...]] | None:
+    """Why the substance is ionic, as a code and its details, or None (rules in the module docstring):
+    ``("salt", ions)``, ``("ion", (ion,))``, ``("zwitterion", ())`` or ``("s-block-bond", (a, b))``.
+
+    >>> ionic_kind(Chem.MolFromSmiles("[Na+].[Cl-]"))
+    ('salt', ('Cl−', 'Na+'))
+    >>> ionic_kind(Chem.MolFromSmiles("CCO")) is None
+    True
+    """
     fragments = Chem.GetMolFrags(mol, asMols=True)
-    charged = sorted({_ion_label(f) for f in fragments if Chem.GetFormalCharge(f) != 0})
+    charged = tuple(sorted({_ion_label(f) for f in fragments if Chem.GetFormalCharge(f) != 0}))
     if charged and len(fragments) > 1:
-        return f"It is a salt of the ions {', '.join(charged)}, held together by ionic attraction."
+        return "salt", charged
     if charged:
-        return f"It is an ion ({charged[0]}), held by ionic attraction to its counter-ions."
+        return "ion", charged[:1]
     for frag in fragments:
         plus = [a.GetIdx() for a in frag.GetAtoms() if a.GetFormalCharge() > 0]
         minus = [a.GetIdx() for a in frag.GetAtoms() if a.GetFormalCharge() < 0]
         distances = Chem.GetDistanceMatrix(frag) if plus and minus else None
         if distances is not None and min(distances[i][j] for i in plus for j in minus) >= 3:
-            return ("It is a zwitterion: its + and − charges sit on separate groups and "
-                    "attract neighbouring molecules ionically.")
+            return "zwitterion", ()
     for bond in mol.GetBonds():
         a, b = bond.GetBeginAtom().GetSymbol(), bond.GetEndAtom().GetSymbol()
         if {a, b} & _S_BLOCK_METALS and a in _PAULING and b in _PAULING \
                 and abs(_PAULING[a] - _PAULING[b]) >= _IONIC_BOND_EN:
-            return (f"The {a}–{b} bond joins an s-block metal to a much more electronegative "
-                    "atom, so it is mainly ionic.")
+            return "s-block-bond", (a, b)
     return None
 
 

@@ -7,7 +7,10 @@ Contents
 - :func:`satyanarayana_rao`: flash point from Tb alone [2].
 - :func:`estimate_flash_point`: picks the best route the inputs allow and
   returns a :class:`FlashPointEstimate` with a standard uncertainty measured
-  against IEC 60079-20-1 flash points (``tools/report_volatility.py``).
+  against IEC 60079-20-1 flash points (``tools/report_volatility.py``),
+  combined with the boiling point's own uncertainty when it has one.
+- :func:`flash_estimate_applies`: whether the correlations apply to a
+  structure at all (the catalog's applicability rule).
 
 Units: temperatures [K], enthalpy [J/mol].
 
@@ -51,9 +54,16 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
+from rdkit import Chem
+
 from builder.chem.vapor import myrdal_yalkowsky_dHvap
 
 T_298 = 298.15
+
+TB_STEP = 0.5
+"""Half-width [K] of the central difference dTf/dTb in :func:`estimate_flash_point`."""
+
+HALOGENS = ("F", "Cl", "Br", "I")
 
 U_CATOIRE_NAUDET_MEASURED_HVAP = 9.5
 """Standard uncertainty [K] of :func:`catoire_naudet` with a tabulated Hvap.
@@ -180,14 +190,39 @@ class FlashPointEstimate:
     estimator: str
 
 
+def flash_estimate_applies(mol: Chem.Mol | None) -> bool:
+    """Whether the flash-point correlations apply to this structure.
+
+    They were fitted on flammable organic liquids, so they need at least one
+    carbon atom, and molecules with more halogen (F, Cl, Br, I) atoms than
+    carbon atoms are skipped: dichloromethane, chloroform and
+    tetrachloroethene are hardly or not at all flammable, and a correlation
+    would still give them a flash point. The catalog's own rule (not from a
+    publication); hydrogens count only when drawn explicitly, which does not
+    change the comparison.
+
+    >>> [flash_estimate_applies(Chem.MolFromSmiles(s)) for s in ("CCO", "ClCCl", "ClC(Cl)Cl", "O")]
+    [True, False, False, False]
+    >>> flash_estimate_applies(None)
+    False
+    """
+    if mol is None:
+        return False
+    symbols = [a.GetSymbol() for a in mol.GetAtoms()]
+    carbons = symbols.count("C")
+    halogens = sum(symbols.count(x) for x in HALOGENS)
+    return carbons > 0 and halogens <= carbons
+
+
 def estimate_flash_point(
     Tb: float,
     n_carbon: int | None = None,
     dHvap298: float | None = None,
     tau: float | None = None,
     hbn: float | None = None,
+    u_Tb: float = 0.0,
 ) -> FlashPointEstimate:
-    """Estimate the flash point [K] by the most accurate route the inputs allow.
+    r"""Estimate the flash point [K] by the most accurate route the inputs allow.
 
     1. ``n_carbon`` and ``dHvap298`` [J/mol]: Catoire-Naudet.
     2. ``n_carbon``, ``tau`` and ``hbn``: Catoire-Naudet with Hvap at
@@ -195,9 +230,40 @@ def estimate_flash_point(
     3. Otherwise: Satyanarayana-Rao from Tb alone.
 
     The uncertainty is the measured RMS error of the route against
-    IEC 60079-20-1 with reference Tb; an estimated Tb (e.g. Joback) adds its
-    own error, which the caller should combine.
+    IEC 60079-20-1 with reference Tb. ``u_Tb`` [K] is the standard
+    uncertainty of Tb itself (an estimated boiling point, e.g. Joback; 0 for
+    a measured one); it is combined by first-order propagation with the
+    route's, the two taken as uncorrelated (JCGM 100:2008, GUM, eq. 10):
+
+    .. math::
+        u(T_f) = \sqrt{u_{route}^2 + \left(\frac{dT_f}{dT_b}\,u(T_b)\right)^2},
+        \quad \frac{dT_f}{dT_b} \approx \frac{T_f(T_b + h) - T_f(T_b - h)}{2h},
+        \ h = 0.5\ \mathrm{K}
+
+    (the same route at both points). Raises ValueError where a route's inputs
+    leave its range (e.g. Hvap(298 K) not positive for a gas well below 25 °C).
+
+    >>> e = estimate_flash_point(383.78)  # toluene, Tb only; IEC 277.15 K
+    >>> round(e.value, 1), e.u
+    (281.0, 18.0)
+    >>> round(estimate_flash_point(383.78, u_Tb=10.0).u, 1)
+    18.8
+
+    Check by hand: with g(x) = x^2 e^-x / (1 - e^-x)^2 and x = c/Tb = 5.7767,
+    g'(x) = g (2/x - 1 - 2 e^-x/(1 - e^-x)) = -0.06867, so dTf/dTb =
+    -537.6 g'(x) c/Tb^2 = 0.5557 and u = sqrt(18^2 + 5.557^2) = 18.8 K.
     """
+    est = _route_estimate(Tb, n_carbon, dHvap298, tau, hbn)
+    if not u_Tb:
+        return est
+    slope = (_route_estimate(Tb + TB_STEP, n_carbon, dHvap298, tau, hbn).value
+             - _route_estimate(Tb - TB_STEP, n_carbon, dHvap298, tau, hbn).value) / (2 * TB_STEP)
+    return FlashPointEstimate(est.value, math.hypot(est.u, slope * u_Tb), est.method, est.reference,
+                              est.estimator)
+
+
+def _route_estimate(Tb: float, n_carbon: int | None, dHvap298: float | None, tau: float | None,
+                    hbn: float | None) -> FlashPointEstimate:
     if n_carbon is not None and n_carbon >= 1:
         if dHvap298 is not None:
             return FlashPointEstimate(

@@ -24,11 +24,11 @@ ORGANIC_ELEMENTS = frozenset({1, 6, 7, 8, 9, 15, 16, 17, 35, 53})
 
 @dataclass(frozen=True)
 class VaporStructure:
-    """Counts from a structure, SI where they carry units."""
+    """Counts from a structure: tau [-], HBN [mol/g], molar mass [g/mol], carbon count [-]."""
 
     tau: float
     hbn: float
-    molar_mass: float  # kg/mol
+    molar_mass: float  # g/mol
     n_carbon: int
     h_bond_donor: bool
 
@@ -58,8 +58,8 @@ def vapor_structure(mol: Chem.Mol) -> VaporStructure | None:
     one OH, so HBN = sqrt(1) / M with M = 74.12 g/mol (CRC Handbook), i.e. 0.01349.
 
     >>> s = vapor_structure(Chem.MolFromSmiles("CCCCCC"))
-    >>> s.tau, s.hbn, s.n_carbon
-    (3.0, 0.0, 6)
+    >>> s.tau, s.hbn, s.n_carbon, round(s.molar_mass, 2)
+    (3.0, 0.0, 6, 86.18)
     >>> abs(vapor_structure(Chem.MolFromSmiles("CCCCO")).hbn - 1 / 74.12) < 1e-4
     True
     >>> vapor_structure(Chem.MolFromSmiles("[Na+].[Cl-]")) is None
@@ -82,7 +82,7 @@ def vapor_structure(mol: Chem.Mol) -> VaporStructure | None:
     n_cooh = len(mol.GetSubstructMatches(_COOH))
     n_oh = len(mol.GetSubstructMatches(_OH)) - n_cooh
     n_nh2 = len(mol.GetSubstructMatches(_NH2))
-    mm = Descriptors.MolWt(mol) / 1000.0
+    mm = Descriptors.MolWt(mol)
     return VaporStructure(
         tau=vapor.flexibility_tau(sp3, sp2, _ring_systems(mol)),
         hbn=vapor.hydrogen_bond_number(n_oh, n_cooh, n_nh2, mm),

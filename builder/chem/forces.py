@@ -2,8 +2,10 @@
 
 Contents
 --------
-- :func:`force_profile` -- classification, generated reasons and supporting numbers.
-- :class:`ForceProfile` -- the frozen result.
+- :func:`force_profile` -- classification, the structural facts behind it and supporting numbers.
+- :class:`ForceProfile` -- the frozen result; :class:`StereoSpread` -- what unspecified stereo
+  does to the dipole moment.
+- :func:`is_chain`, :func:`is_flat`, :func:`heavy_atoms` -- structural facts the explanation uses.
 - :func:`hbond_donors`, :func:`hbond_acceptors` -- own SMARTS-based counts.
 - :func:`n_alkane_boiling_point` -- reference line for the "force excess".
 - :data:`FORCE_KINDS`, :data:`FORCE_EXCESS_NOTABLE_K`.
@@ -16,8 +18,8 @@ Classification (common practice for pure substances)
   molecules whose bond dipoles cancel come out non-polar.
 - *hydrogen-bonding*: an H on N, O or F (donor) and an N, O or F lone pair (acceptor)
   in the same molecule. Molecules with acceptors only (ethers, ketones, tertiary
-  amines) cannot hydrogen-bond to themselves; the reasons say they accept H-bonds from
-  water or alcohols.
+  amines) cannot hydrogen-bond to themselves, but accept H-bonds from water or alcohols
+  (``acceptor_atoms`` says which atoms).
 - *ionic*: a fragment with a net charge (salts, ions), a zwitterion whose opposite
   charges sit three or more bonds apart, or a bond between an alkali or alkaline-earth
   metal and an atom at least 1.7 more electronegative (Pauling scale).
@@ -29,13 +31,15 @@ n-alkane of equal molar mass) shows how much the polar forces add.
 
 Stereo and mixtures: stereo given in the SMILES is used. When a double bond or centre
 is unspecified, the conformer ensemble samples several stereoisomers; the largest
-isomer moment is reported and a reason says whether the stereo decides the polarity.
-For dot-separated structures the dipole and shape refer to the largest fragment (a
-note says so); an ion has no dipole value. The reasons are generated sentences.
+isomer moment is reported and ``stereo`` (a :class:`StereoSpread`) says whether the stereo
+decides the polarity. For dot-separated structures the dipole and shape refer to the largest
+fragment (a note says so); an ion has no dipole value. This module returns facts (numbers,
+codes, counts); the sentences a datasheet shows are written from them in
+``builder/derive/forces.py``.
 
 Size: above the heavy-atom limit of the 3D work (:func:`builder.chem.structure3d.max_3d_atoms`)
 no conformers are built, so the dipole moment and shape are not computed;
-``not_computed`` names them with the reason, a note and a reason say so, and
+``not_computed`` names them with the reason, a note says so, and
 dipole–dipole attraction is then not assessed (it is never claimed without a moment).
 
 References
@@ -64,7 +68,7 @@ from builder.chem.features import (
     donor_groups,
     hbond_acceptors,
     hbond_donors,
-    ionic_reason,
+    ionic_kind,
     largest_fragment,
     polar_bonds,
 )
@@ -87,6 +91,7 @@ __all__ = [
     "FORCE_EXCESS_NOTABLE_K",
     "FORCE_KINDS",
     "ForceProfile",
+    "StereoSpread",
     "force_profile",
     "hbond_acceptors",
     "hbond_donors",
@@ -97,9 +102,40 @@ FORCE_KINDS = ("dispersion", "dipole-dipole", "hydrogen-bonding", "ionic")
 """Kinds of attraction, weakest contact first."""
 
 FORCE_EXCESS_NOTABLE_K = 20.0
-"""Force excess above which the reasons say polar forces add noticeably [K] (our choice)."""
+"""Force excess [K] beyond which (either way) it counts as notable: polar forces add noticeably, or
+the molecule falls well short of the n-alkane line (our choice)."""
 
 _DATA = Path(__file__).resolve().parent.parent / "data" / "n_alkanes.json"
+
+
+@dataclass(frozen=True)
+class StereoSpread:
+    """Unspecified stereo and the dipole moments of the stereoisomers the 3D embedding sampled.
+
+    ``unspecified`` holds one code per unspecified element, ``"centre"`` or ``"double bond"``.
+    ``isomer_moments_D`` [D] holds one moment per sampled stereoisomer (the Boltzmann RMS over
+    its conformers); it is empty when the only unspecified element is a single stereocentre,
+    whose two mirror-image forms have the same moment.
+
+    >>> StereoSpread(("double bond",), (0.0, 2.1)).decides_polarity
+    True
+    """
+
+    unspecified: tuple[str, ...]
+    isomer_moments_D: tuple[float, ...] = ()
+
+    @property
+    def mirror_images_only(self) -> bool:
+        """One unspecified stereocentre and nothing else: its two forms are mirror images."""
+        return self.unspecified == ("centre",)
+
+    @property
+    def decides_polarity(self) -> bool:
+        """Some sampled stereoisomers are polar (above the threshold) and others are not."""
+        if not self.isomer_moments_D:
+            return False
+        low, high = min(self.isomer_moments_D), max(self.isomer_moments_D)
+        return (low > POLAR_THRESHOLD_D) != (high > POLAR_THRESHOLD_D)
 
 
 @dataclass(frozen=True)
@@ -108,12 +144,14 @@ class ForceProfile:
 
     ``methods`` maps each number's field name to its method and reference; ``kinds``
     maps it to "computed" (exact from the structure), "estimated" or "reference data".
+    The structural facts (``polar_bonds``, ``donor_groups``, ``acceptor_atoms``, ``chain``,
+    ``flat``, ``heavy_elements``, ``stereo``) are what an explanation of the classification
+    rests on; they refer to the whole structure as given.
     """
 
     smiles: str
     dominant: str
     present: tuple[str, ...]
-    reasons: tuple[str, ...]
     electron_count: int
     polarizability_A3: float | None
     dipole_D: float | None
@@ -133,6 +171,22 @@ class ForceProfile:
     notes: tuple[str, ...] = ()
     #: field name → why it has no value ("not computed: too large ..."), for skipped 3D work
     not_computed: dict[str, str] = field(default_factory=dict)
+    #: bonds between atoms differing enough in electronegativity, as "C–Cl", "C=O", each once
+    polar_bonds: tuple[str, ...] = ()
+    #: donor groups and their hydrogen counts, e.g. (("O–H", 1),)
+    donor_groups: tuple[tuple[str, int], ...] = ()
+    #: acceptor atoms by element and their counts, e.g. (("O", 1),)
+    acceptor_atoms: tuple[tuple[str, int], ...] = ()
+    #: an open chain of at least four carbons (:func:`is_chain`)
+    chain: bool = False
+    #: aromatic or disc-like (:func:`is_flat`)
+    flat: bool = False
+    #: halogens, S, P, Si present (:func:`heavy_atoms`)
+    heavy_elements: tuple[str, ...] = ()
+    heavy_atom_count: int = 0
+    atom_count: int = 0
+    #: unspecified stereo and its effect on the moment; None when all stereo is given (or for an ion)
+    stereo: StereoSpread | None = None
 
     def __post_init__(self) -> None:
         if self.present[:1] != ("dispersion",) or self.dominant != self.present[-1]:
@@ -141,8 +195,8 @@ class ForceProfile:
             raise ValueError(f"unknown force kind in {self.present}; allowed: {FORCE_KINDS}")
 
 
-def _stereo_dipoles(mol: Chem.Mol) -> tuple[DipoleEstimate, str | None]:
-    """Return the dipole estimate and, with unspecified stereo, a reason about it.
+def _stereo_dipoles(mol: Chem.Mol) -> tuple[DipoleEstimate, StereoSpread | None]:
+    """Return the dipole estimate and, with unspecified stereo, the moments of the isomers.
 
     With unspecified stereo the ensemble's conformers fall into several stereoisomers
     (see :func:`conformer_stereo`); each isomer's moment is the Boltzmann RMS over its
@@ -155,8 +209,7 @@ def _stereo_dipoles(mol: Chem.Mol) -> tuple[DipoleEstimate, str | None]:
     if not unspecified or estimate.value_D is None or not estimate.conformer_moments_D:
         return estimate, None
     if unspecified == ["centre"]:
-        return estimate, ("One stereocentre is unspecified; its two mirror-image forms "
-                          "have the same dipole moment.")
+        return estimate, StereoSpread(("centre",))
     labels = conformer_stereo(ensemble)
     moments = np.array(estimate.conformer_moments_D)
     weights = np.array(estimate.weights)
@@ -165,18 +218,8 @@ def _stereo_dipoles(mol: Chem.Mol) -> tuple[DipoleEstimate, str | None]:
         chosen = np.array([lab == label for lab in labels])
         w = weights[chosen] / weights[chosen].sum()
         per_isomer[label] = math.sqrt(float(w @ moments[chosen] ** 2))
-    low, high = min(per_isomer.values()), max(per_isomer.values())
-    what = " and ".join(_count(unspecified.count(k), k) for k in sorted(set(unspecified)))
-    reported = replace(estimate, value_D=high)
-    if len(per_isomer) == 1:
-        return reported, (f"The stereo of {what} is unspecified, but the 3D embedding formed only "
-                          "one stereoisomer.")
-    if (low > POLAR_THRESHOLD_D) == (high > POLAR_THRESHOLD_D):
-        return reported, (f"The stereo of {what} is unspecified; the {len(per_isomer)} stereoisomers "
-                          f"sampled agree on polarity ({low:.1f}–{high:.1f} D).")
-    return reported, (f"The stereo of {what} is unspecified and decides the polarity: the "
-                      f"sampled stereoisomers range from {low:.1f} to {high:.1f} D. The largest "
-                      "is reported; give the stereo in the SMILES to settle it.")
+    reported = replace(estimate, value_D=max(per_isomer.values()))
+    return reported, StereoSpread(tuple(unspecified), tuple(per_isomer[label] for label in sorted(per_isomer)))
 
 
 def force_profile(mol_or_smiles: str | Chem.Mol, boiling_point_K: float | None = None) -> ForceProfile:
@@ -192,7 +235,11 @@ def force_profile(mol_or_smiles: str | Chem.Mol, boiling_point_K: float | None =
     Returns
     -------
     ForceProfile
-        Classification, reasons and numbers; see the module docstring.
+        Classification, the structural facts behind it and numbers; see the module docstring.
+
+    >>> p = force_profile("CCOCC")  # diethyl ether: accepts H-bonds, cannot donate them
+    >>> p.dominant, p.hbond_donors, p.acceptor_atoms, p.polar_bonds
+    ('dipole-dipole', 0, (('O', 1),), ('C–O',))
 
     Raises
     ------
@@ -202,16 +249,16 @@ def force_profile(mol_or_smiles: str | Chem.Mol, boiling_point_K: float | None =
     smiles = canonical_smiles(mol_or_smiles)
     mol = Chem.MolFromSmiles(smiles)
     main = largest_fragment(mol)
-    ionic = ionic_reason(mol)
+    ionic = ionic_kind(mol)
     donors, acceptors = hbond_donors(mol), hbond_acceptors(mol)
     alpha, alpha_note = polarizability(mol)
     n_electrons = electron_count(mol)
     if ionic and Chem.GetFormalCharge(main) != 0:
         dipole = DipoleEstimate(None, None, "not applicable",
                                 "not defined for an ion (depends on the origin)")
-        stereo_reason = None
+        stereo = None
     else:
-        dipole, stereo_reason = _stereo_dipoles(main)
+        dipole, stereo = _stereo_dipoles(main)
     ensemble = conformer_ensemble(canonical_smiles(main))
     npr1 = npr2 = None
     if ensemble.ok:
@@ -231,8 +278,6 @@ def force_profile(mol_or_smiles: str | Chem.Mol, boiling_point_K: float | None =
         present.append("hydrogen-bonding")
     if ionic:
         present.append("ionic")
-    reasons = _reasons(mol, ionic, dipole, stereo_reason, donors, acceptors, alpha,
-                       n_electrons, shape, excess, present[-1])
     not_computed = {}
     if dipole.value_D is None and dipole.status.startswith(TOO_LARGE):
         not_computed["dipole_D"] = dipole.status
@@ -247,14 +292,17 @@ def force_profile(mol_or_smiles: str | Chem.Mol, boiling_point_K: float | None =
         f"force excess: {excess_note}" if excess_note else "",
     ) if n)
     return ForceProfile(
-        smiles=smiles, dominant=present[-1], present=tuple(present), reasons=tuple(reasons),
+        smiles=smiles, dominant=present[-1], present=tuple(present),
         electron_count=n_electrons, polarizability_A3=alpha, dipole_D=dipole.value_D,
         dipole_uncertainty_D=dipole.uncertainty_D, dipole_method=dipole.method,
         hbond_donors=donors, hbond_acceptors=acceptors, npr1=npr1, npr2=npr2, shape=shape,
         surface_area_A2=surface_area(Chem.AddHs(mol)), molar_mass_g_mol=molar_mass,
         boiling_point_K=boiling_point_K, force_excess_K=excess,
         methods=dict(_METHODS, dipole_D=dipole.method), kinds=dict(_KINDS), notes=notes,
-        not_computed=not_computed,
+        not_computed=not_computed, polar_bonds=tuple(polar_bonds(mol)),
+        donor_groups=tuple(donor_groups(mol).items()), acceptor_atoms=tuple(acceptor_atoms(mol).items()),
+        chain=is_chain(mol), flat=is_flat(mol, shape), heavy_elements=tuple(heavy_atoms(mol)),
+        heavy_atom_count=mol.GetNumHeavyAtoms(), atom_count=mol.GetNumAtoms(), stereo=stereo,
     )
 
 
@@ -309,110 +357,6 @@ def heavy_atoms(mol: Chem.Mol) -> list[str]:
     """The heavy-atom symbols of ``mol`` (halogens, S, P, Si), each once, in formula order."""
     found = {a.GetSymbol() for a in mol.GetAtoms()}
     return [s for s in _HEAVY_SYMBOLS if s in found]
-
-
-def _reasons(mol: Chem.Mol, ionic: str | None, dipole: DipoleEstimate,
-             stereo_reason: str | None, donors: int, acceptors: int, alpha: float | None,
-             n_electrons: int, shape: str | None, excess: float | None,
-             dominant: str = "dispersion") -> list[str]:
-    reasons = [ionic] if ionic else []
-    size = f"{n_electrons} electrons"
-    if alpha is not None:
-        size += f", polarizability {alpha:.1f} Å³"
-    if ionic:
-        reasons.append(f"Dispersion acts as well, growing with size ({size}), but it is small beside "
-                       "the attraction between the ions.")
-    else:
-        reasons.append(f"Dispersion acts between all molecules; it grows with size ({size}).")
-    if shape == "rod-like" and mol.GetNumHeavyAtoms() > 3 and is_chain(mol):
-        reasons.append("Its chain-like shape gives a large contact area, which strengthens dispersion.")
-    elif shape == "sphere-like" and mol.GetNumHeavyAtoms() > 3:
-        reasons.append("Its compact, ball-like shape limits contact area and so dispersion.")
-    bonds = polar_bonds(mol)
-    if dipole.value_D is not None:
-        moment = f"{dipole.value_D:.1f} ± {dipole.uncertainty_D:.1f} D"
-        if dipole.value_D > POLAR_THRESHOLD_D:
-            origin = f" from its {', '.join(bonds)} bonds" if bonds else ""
-            reasons.append(f"It has a net dipole moment of about {moment}{origin}, "
-                           f"above the {POLAR_THRESHOLD_D} D threshold for dipole–dipole attraction.")
-        elif bonds:
-            reasons.append(f"The {', '.join(bonds)} bond dipoles cancel by symmetry "
-                           f"(net moment about {moment}), so it is non-polar.")
-        elif mol.GetNumAtoms() == 1:
-            reasons.append("A single atom has no permanent dipole moment.")
-        else:
-            reasons.append(f"It has no polar bonds (net moment about {moment}).")
-    elif dipole.status.startswith(TOO_LARGE):
-        reasons.append("Its dipole moment was not computed (the molecule is too large for the 3D step), "
-                       "so whether dipole–dipole attraction acts is not assessed.")
-    if stereo_reason:
-        reasons.append(stereo_reason)
-    groups = donor_groups(mol)
-    accepting = acceptor_atoms(mol)
-    acc_text = " and ".join(_count(n, f"{el} atom") for el, n in accepting.items())
-    if donors and acceptors:
-        don_text = " and ".join(f"{g} ({n} H)" for g, n in groups.items())
-        reasons.append(f"Its {don_text} can donate hydrogen bonds to the lone pairs of "
-                       f"its {acc_text}, so the molecules hydrogen-bond to each other.")
-    elif acceptors:
-        reasons.append(f"It has no H on N, O or F, so it cannot hydrogen-bond to itself, "
-                       f"but the lone pairs of its {acc_text} accept hydrogen bonds from water or alcohols.")
-    elif donors:
-        reasons.append("It has H on N, O or F but no free N, O or F lone pair, so it forms "
-                       "hydrogen bonds only with acceptor molecules.")
-    if excess is not None and not ionic:
-        reasons.append(_excess_reason(excess, dominant, is_flat(mol, shape), heavy_atoms(mol)))
-    return reasons
-
-
-def _excess_reason(excess: float, dominant: str = "dispersion", flat: bool = False,
-                   heavy: list[str] | tuple[str, ...] = ()) -> str:
-    """What the force excess says, in words that agree with the dominant force: a polar molecule
-    is never told it gains nothing beyond dispersion, a non-polar one never that forces beyond
-    dispersion add.  Flat (aromatic, planar) molecules and molecules with heavy atoms are told
-    why the n-alkane of equal mass is the wrong yardstick for them."""
-    limit = FORCE_EXCESS_NOTABLE_K
-    polar = dominant != "dispersion"
-    heavy_text = " and ".join(heavy)
-    if excess > limit:
-        head = f"It boils {excess:.0f} K above the n-alkane of the same molar mass"
-        if polar:
-            return f"{head}: the forces beyond dispersion add noticeably to cohesion."
-        if flat:
-            return (f"{head}. It has no polar attraction to explain this: flat molecules (an aromatic ring, "
-                    "a planar frame) stack face to face and touch over more of their surface than chains "
-                    "of equal mass, so their dispersion is stronger; the n-alkane is the wrong yardstick "
-                    "for a flat molecule.")
-        return (f"{head}. It has no polar attraction to explain this: its compact shape (rings, few "
-                "loose ends) packs closely, so dispersion is stronger than between chains of equal mass.")
-    if excess < -limit:
-        head = f"It boils {-excess:.0f} K below the n-alkane of the same molar mass"
-        if heavy:
-            why = (f"its {heavy_text} atoms add mass with fewer electrons per gram than CH₂, so the "
-                   "n-alkane of equal mass is larger in electrons and contact and the comparison by mass "
-                   "understates its cohesion")
-            if polar:
-                return (f"{head}: {why}. This does not mean the {dominant.replace('-', '–')} attraction "
-                        "is absent.")
-            return f"{head}: {why}; it gains nothing beyond dispersion."
-        if polar:
-            return (f"{head}: by this measure the {dominant.replace('-', '–')} attraction adds little; "
-                    "the molecule is more compact than a chain of equal mass, which weakens its dispersion.")
-        return f"{head}: it gains nothing beyond dispersion, and its compact shape limits contact."
-    head = (f"It boils within {limit:.0f} K of the n-alkane of the same molar mass "
-            f"({excess:+.0f} K)".replace("-", "−"))
-    if polar:
-        return (f"{head}: dispersion supplies most of the cohesion; the "
-                f"{dominant.replace('-', '–')} attraction adds little to the boiling point.")
-    return f"{head}: dispersion supplies nearly all of the cohesion."
-
-
-def _plural(n: int, noun: str) -> str:
-    return noun if n == 1 else {"centre": "centres", "double bond": "double bonds"}.get(noun, noun + "s")
-
-
-def _count(n: int, noun: str) -> str:
-    return f"{n} {_plural(n, noun)}"
 
 
 def _force_excess(boiling_point_K: float | None, molar_mass: float) -> tuple[float | None, str]:

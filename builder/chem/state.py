@@ -37,6 +37,8 @@ References
 """
 from __future__ import annotations
 
+import math
+
 from dataclasses import dataclass
 
 from builder.chem.constants import T_ZERO_CELSIUS
@@ -155,6 +157,39 @@ def stoichiometric_percent(c: int, h: int, o: int) -> float | None:
 
 JONES_LFL, JONES_UFL = 0.55, 3.50
 """Jones (1938) ratios of the lower and upper limits to the stoichiometric concentration."""
+
+
+#: relative standard uncertainty given to Jones's limits (from memory: the correlation is quoted as good
+#: to about ±30 % for hydrocarbons; the measured error is printed by ``python tools/report_state.py``)
+JONES_U_REL = 0.25
+#: Guldberg's rule Tc ≈ 1.5·Tb, the fallback where Joback has no groups (methane, inorganic gases)
+GULDBERG_RATIO = 1.5
+#: its relative standard uncertainty (from memory: the ratio Tb/Tc spans about 0.55-0.75)
+GULDBERG_U_REL = 0.12
+#: standard uncertainty of Joback Tc from a measured Tb: 1.2533 x the published AAE 4.76 K
+JOBACK_TC_U = 6.0
+
+
+def joback_tc_uncertainty(tc: float, tb: float, u_tb: float = 0.0) -> float:
+    """Standard uncertainty of a Joback critical temperature [K]: the method's own (``JOBACK_TC_U``)
+    combined with the boiling point's, to first order (Tc is proportional to Tb; GUM, JCGM 100:2008
+    eq. 10):  u_Tc = √(u_J² + (Tc/Tb · u_Tb)²).
+
+    >>> round(joback_tc_uncertainty(591.0, 383.8, 10.0), 2)
+    16.53
+    """
+    return math.hypot(JOBACK_TC_U, (tc / tb) * u_tb)
+
+
+def guldberg_tc(tb: float, u_tb: float = 0.0) -> tuple[float, float]:
+    """Guldberg's rule Tc ≈ 1.5·Tb [K] with its standard uncertainty: the rule's own
+    (``GULDBERG_U_REL``) combined with the boiling point's, to first order.
+
+    >>> [round(x, 1) for x in guldberg_tc(111.7)]   # methane; measured Tc 190.6 K
+    [167.6, 20.1]
+    """
+    tc = GULDBERG_RATIO * tb
+    return tc, math.hypot(GULDBERG_U_REL * tc, GULDBERG_RATIO * u_tb)
 
 
 def jones_limits(c: int, h: int, o: int) -> tuple[float, float] | None:

@@ -16,8 +16,8 @@ from rdkit import Chem
 from builder.chem import bands, exposure, flash, ghs, handling, vapor
 from builder.chem.flexibility import VaporStructure, vapor_structure
 from builder.core.diagnostics import Diagnostic
-from builder.core.model import Antoine as StatedAntoine
 from builder.core.methods import method_for_estimator
+from builder.core.model import Antoine as StatedAntoine
 from builder.core.model import Entry
 from builder.core.units import ZERO_CELSIUS_K, celsius_text, to_unit
 from builder.core.values import Label, Provenance, Value, estimated
@@ -69,18 +69,18 @@ def _pressure_at(T: float, antoine: vapor.Antoine | None, tb: Value | None, vs: 
                                                                    note=f"coefficients from {antoine_source}"))
     if tb is None or vs is None or T >= tb.value:
         return None
-    est = vapor.estimate_psat(T, tb.value, vs.tau, vs.hbn, vs.h_bond_donor)
-    u = est.value * est.u_ln  # standard uncertainty from the ln-uncertainty (first order)
-    if tb.kind == "estimated" and tb.uncertainty:
-        # propagate the boiling point's uncertainty: d ln P / d Tb by a central difference
-        h = 0.5
-        dlnp = (math.log(vapor.myrdal_yalkowsky_psat(T, tb.value + h, vs.tau, vs.hbn))
-                - math.log(vapor.myrdal_yalkowsky_psat(T, tb.value - h, vs.tau, vs.hbn))) / (2 * h)
-        u = est.value * math.hypot(est.u_ln, dlnp * tb.uncertainty)
+    est = vapor.estimate_psat(T, tb.value, vs.tau, vs.hbn, vs.h_bond_donor, u_Tb=_u_estimated(tb))
+    u = est.u
     why = "outside the Antoine range; " if antoine is not None else ""
     low, high = est.value * math.exp(-u / est.value), est.value * math.exp(u / est.value)
     return estimated(est.value, "Pa", "myrdal-yalkowsky", u,
                      f"{why}from the {tb.kind} boiling point; 1σ range {low / 1000:.3g} to {high / 1000:.3g} kPa")
+
+
+def _u_estimated(tb: Value) -> float:
+    """The boiling point's standard uncertainty to carry into what is computed from it: an estimate's
+    (a stated value's error is already inside the methods' measured uncertainties), else 0."""
+    return tb.uncertainty if tb.kind == "estimated" and tb.uncertainty else 0.0
 
 
 def _curve(antoine: vapor.Antoine | None, tb: Value | None, vs: VaporStructure | None,
@@ -107,36 +107,19 @@ def _curve(antoine: vapor.Antoine | None, tb: Value | None, vs: VaporStructure |
     return segments
 
 
-def flash_estimate_applies(mol: Chem.Mol | None) -> bool:
-    """The flash-point correlations were fitted on flammable organics: skip molecules with more
-    halogen atoms than carbon atoms (dichloromethane, chloroform, tetrachloroethene), which are
-    hardly or not at all flammable (the catalog's own applicability rule)."""
-    if mol is None:
-        return False
-    symbols = [a.GetSymbol() for a in mol.GetAtoms()]
-    carbons = symbols.count("C")
-    halogens = sum(symbols.count(x) for x in ("F", "Cl", "Br", "I"))
-    return carbons > 0 and halogens <= carbons
-
-
 def _flash_point(entry: Entry, mol: Chem.Mol | None, tb: Value | None,
                  vs: VaporStructure | None) -> tuple[Value | None, Value | None]:
     stated = entry.properties.get("flash_point")
     estimate = None
-    if tb is not None and flash_estimate_applies(mol):
-        n_c = vs.n_carbon if vs else None
-        args = dict(n_carbon=n_c, tau=vs.tau if vs else None, hbn=vs.hbn if vs else None)
+    if tb is not None and flash.flash_estimate_applies(mol):
         try:
-            est = flash.estimate_flash_point(tb.value, **args)
-            u = est.u
-            if tb.kind == "estimated" and tb.uncertainty:
-                slope = (flash.estimate_flash_point(tb.value + 0.5, **args).value
-                         - flash.estimate_flash_point(tb.value - 0.5, **args).value)
-                u = math.hypot(u, slope * tb.uncertainty)
+            est = flash.estimate_flash_point(tb.value, n_carbon=vs.n_carbon if vs else None,
+                                             tau=vs.tau if vs else None, hbn=vs.hbn if vs else None,
+                                             u_Tb=_u_estimated(tb))
         except ValueError:  # outside the correlations' range (e.g. a gas far below 25 °C): no estimate
             return stated, None
         method = method_for_estimator(est.estimator)
-        estimate = estimated(est.value, "K", method, u, f"from the {tb.kind} boiling point")
+        estimate = estimated(est.value, "K", method, est.u, f"from the {tb.kind} boiling point")
     return stated or estimate, estimate
 
 
@@ -229,8 +212,8 @@ def fire_values(entry: Entry, mol: Chem.Mol | None, values: dict[str, Value], do
         if v is not None:
             result.values[key] = Value(v.value, v.unit, v.provenance, v.uncertainty, (("at", T),))
     if tb is not None and vs is not None:
-        dh = vapor.myrdal_yalkowsky_dHvap(tb.value, tb.value, vs.tau, vs.hbn)
-        result.values["enthalpy_of_vaporization"] = estimated(dh, "J/mol", "myrdal-yalkowsky-hvap", 0.04 * dh,
+        dh = vapor.estimate_dhvap_at_tb(tb.value, vs.tau, vs.hbn)
+        result.values["enthalpy_of_vaporization"] = estimated(dh.value, "J/mol", "myrdal-yalkowsky-hvap", dh.u,
                                                               f"at the {tb.kind} boiling point")
     result.curve = _curve(antoine, tb, vs, store_temperature.value)
     mm = values.get("molar_mass")
@@ -246,9 +229,9 @@ def fire_values(entry: Entry, mol: Chem.Mol | None, values: dict[str, Value], do
             result.values["vapor_hazard_ratio"] = Value(
                 exposure.vapor_hazard_ratio(svc, oel.value), "dimensionless",
                 Provenance(inherited_kind(p20), method="vapor-hazard-ratio", note=f"exposure limit from {oel.provenance.source}"))
-    if mm is not None and 0.0 < mm.value / 1000.0 <= exposure.MAX_MOLAR_MASS:  # outside: not a vapor
+    if mm is not None and exposure.MIN_MOLAR_MASS <= mm.value <= exposure.MAX_MOLAR_MASS:  # else: not a vapor
         result.values["vapor_density_relative"] = Value(
-            exposure.relative_vapor_density(mm.value / 1000.0), "dimensionless",
+            exposure.relative_vapor_density(mm.value), "dimensionless",
             Provenance("assumed", method="vapor-density-ideal-gas"))
     fp, fp_estimate = _flash_point(entry, mol, tb, vs)
     if fp is not None:

@@ -18,7 +18,6 @@ flammable-liquid category is derived whenever "liquid" is among the states allow
 """
 from __future__ import annotations
 
-import math
 from dataclasses import dataclass, field
 
 from rdkit import Chem
@@ -34,12 +33,6 @@ from builder.core.model import Entry
 from builder.core.units import celsius_text
 from builder.core.values import Label, Provenance, Value, estimated
 
-#: Guldberg's rule Tc ≈ 1.5·Tb, the fallback where Joback has no groups (methane, inorganic gases)
-GULDBERG_RATIO = 1.5
-#: its relative standard uncertainty (from memory: the ratio Tb/Tc spans about 0.55-0.75)
-GULDBERG_U_REL = 0.12
-#: standard uncertainty of Joback Tc from a measured Tb: 1.2533 x the published AAE 4.76 K
-JOBACK_TC_U = 6.0
 
 #: why no boiling point can be estimated, in words, by the estimator's status (prefix)
 NO_TB_REASONS = {
@@ -158,10 +151,9 @@ def _critical_temperature(mol: Chem.Mol, tb: Value) -> Value:
     counts, unassigned = joback_groups(mol)
     tc = joback_tc(counts, tb.value) if counts and not unassigned else None
     if tc is not None:
-        u = math.hypot(JOBACK_TC_U, (tc / tb.value) * _u(tb))
+        u = chem_state.joback_tc_uncertainty(tc, tb.value, _u(tb))
         return estimated(tc, "K", "joback-tc", u, f"from the {tb.kind} boiling point")
-    tc = GULDBERG_RATIO * tb.value
-    u = math.hypot(GULDBERG_U_REL * tc, GULDBERG_RATIO * _u(tb))
+    tc, u = chem_state.guldberg_tc(tb.value, _u(tb))
     return estimated(tc, "K", "guldberg-tc", u, f"from the {tb.kind} boiling point; no Joback groups for this structure")
 
 
@@ -182,13 +174,12 @@ def _flammable_gas(entry: Entry, mol: Chem.Mol | None, result: StateResult) -> N
         if set(counts) <= {"C", "H", "O", "N"} and counts.get("C", 0) > 0:
             limits = chem_state.jones_limits(counts.get("C", 0), counts.get("H", 0), counts.get("O", 0))
             if limits is not None:
-                # relative standard uncertainty 0.25 (from memory; measured error: tools/report_state.py)
-                lfl = estimated(limits[0], "%", "jones-flammability-limits", 0.25 * limits[0],
+                lfl = estimated(limits[0], "%", "jones-flammability-limits", chem_state.JONES_U_REL * limits[0],
                                 "0.55 x the stoichiometric concentration")
                 result.values["lower_flammable_limit_estimate"] = lfl
                 if ufl is None:
                     ufl = estimated(limits[1], "%", "jones-flammability-limits",
-                                    0.25 * limits[1], "3.5 x the stoichiometric concentration")
+                                    chem_state.JONES_U_REL * limits[1], "3.5 x the stoichiometric concentration")
                     result.values["upper_flammable_limit_estimate"] = ufl
                 note, kind = "from flammability limits estimated by Jones's correlation", "estimated"
     if lfl is None:

@@ -15,8 +15,8 @@ def test_svc_ppm_hand_calculation():
 
 
 def test_svc_mass_hand_calculation():
-    # 3789 Pa * 0.09214 kg/mol / (8.314462618 * 298.15) = 0.14083 kg/m3.
-    c = exposure.saturated_vapor_mass_concentration(3789.0, 0.09214, 298.15)
+    # 3789 Pa * 0.09214 kg/mol / (8.314462618 * 298.15) = 0.14083 kg/m3 (molar mass given in g/mol).
+    c = exposure.saturated_vapor_mass_concentration(3789.0, 92.14, 298.15)
     assert c == pytest.approx(0.14083, rel=1e-4)
     # Consistent with ppm * M / 24.465 L/mol (chemicals' ppmv_to_mgm3 basis at 25 degC).
     ppm = exposure.saturated_vapor_concentration_ppm(3789.0)
@@ -33,18 +33,23 @@ def test_vapor_hazard_ratio():
 @pytest.mark.parametrize("molar_mass, expected", [
     # Air: 28.9586 g/mol, molar mass of dry air (Lemmon, E. W.; Jacobsen, R. T.;
     # Penoncello, S. G.; Friend, D. G. J. Phys. Chem. Ref. Data 2000, 29, 331-385).
-    (0.09214, 3.1818),  # toluene 92.14 / 28.9586
-    (0.05808, 2.0056),  # acetone
-    (0.016043, 0.5540),  # methane: lighter than air
-    (0.0289586, 1.0),
+    (92.14, 3.1818),  # toluene 92.14 / 28.9586 (g/mol)
+    (58.08, 2.0056),  # acetone
+    (16.043, 0.5540),  # methane: lighter than air
+    (28.9586, 1.0),
 ])
 def test_relative_vapor_density(molar_mass, expected):
     assert exposure.relative_vapor_density(molar_mass) == pytest.approx(expected, abs=1e-4)
 
 
-def test_grams_per_mole_rejected():
-    with pytest.raises(ValueError, match="g/mol"):
-        exposure.relative_vapor_density(92.14)
+def test_kilograms_per_mole_rejected():
+    # below one hydrogen atom (1.008 g/mol, IUPAC standard atomic weight): given in kg/mol
+    with pytest.raises(ValueError, match="kg/mol"):
+        exposure.relative_vapor_density(0.09214)
+    with pytest.raises(ValueError, match="kg/mol"):
+        exposure.saturated_vapor_mass_concentration(3789.0, 0.09214, 298.15)
+    with pytest.raises(ValueError, match="not a vapour"):
+        exposure.relative_vapor_density(exposure.MAX_MOLAR_MASS * 2)
 
 
 def test_boiling_liquid_rejected():

@@ -2,8 +2,11 @@
 
 from __future__ import annotations
 
+import math
+
 import pytest
 from conftest import report_volatility
+from rdkit import Chem
 
 from builder.chem import flash
 
@@ -95,3 +98,63 @@ def test_flash_mae_against_serat(serat_errors, route, bound):
 ])
 def test_declared_uncertainty_covers_measured_rms(iec_errors, route, u):
     assert report_volatility().summary(iec_errors[route])["rms"] <= u
+
+
+def _satyanarayana_rao_slope(Tb):
+    # closed-form dTf/dTb of Satyanarayana & Rao (1992): Tf = a + b g(x), x = c/Tb,
+    # g = x^2 e^-x / (1 - e^-x)^2, g'(x) = g (2/x - 1 - 2 e^-x / (1 - e^-x))
+    x = 2217.0 / Tb
+    g = x * x * math.exp(-x) / (1.0 - math.exp(-x)) ** 2
+    dg = g * (2.0 / x - 1.0 - 2.0 * math.exp(-x) / (1.0 - math.exp(-x)))
+    return -537.6 * dg * 2217.0 / Tb**2
+
+
+@pytest.mark.parametrize("Tb", [300.0, 383.78, 480.0])
+def test_boiling_point_uncertainty_is_combined_as_in_the_gum_tb_only(Tb):
+    # JCGM 100:2008 eq. 10, uncorrelated: u^2 = u_route^2 + (dTf/dTb u_Tb)^2
+    u_tb = 11.0
+    e = flash.estimate_flash_point(Tb, u_Tb=u_tb)
+    assert e.value == flash.estimate_flash_point(Tb).value
+    assert e.u == pytest.approx(math.hypot(flash.U_SATYANARAYANA_RAO, _satyanarayana_rao_slope(Tb) * u_tb),
+                                rel=1e-5)
+
+
+def test_boiling_point_uncertainty_with_tabulated_hvap():
+    # Catoire & Naudet (2004) with Hvap fixed: Tf ∝ Tb^0.79686, so dTf/dTb = 0.79686 Tf/Tb
+    Tb, u_tb = 383.78, 9.0
+    e = flash.estimate_flash_point(Tb, n_carbon=7, dHvap298=38010.0, u_Tb=u_tb)
+    slope = 0.79686 * e.value / Tb
+    assert e.u == pytest.approx(math.hypot(flash.U_CATOIRE_NAUDET_MEASURED_HVAP, slope * u_tb), rel=1e-5)
+    assert flash.estimate_flash_point(Tb, n_carbon=7, dHvap298=38010.0, u_Tb=0.0).u == \
+        flash.U_CATOIRE_NAUDET_MEASURED_HVAP
+
+
+@pytest.mark.parametrize("cas, smiles, has_flash_point", [
+    # flash points as listed in chemicals.safety (T_flash_methods): none at all for these four
+    ("75-09-2", "ClCCl", False),  # dichloromethane
+    ("67-66-3", "ClC(Cl)Cl", False),  # chloroform
+    ("56-23-5", "ClC(Cl)(Cl)Cl", False),  # tetrachloromethane
+    ("71-55-6", "CC(Cl)(Cl)Cl", False),  # 1,1,1-trichloroethane
+    # IEC 60079-20-1 (2010) flash points: 1,2-dichloroethane 286 K, chlorobenzene 301 K, ethanol 285 K
+    ("107-06-2", "ClCCCl", True),
+    ("108-90-7", "Clc1ccccc1", True),
+    ("64-17-5", "CCO", True),
+    # NFPA 497 (2008): chloromethane 227 K
+    ("74-87-3", "CCl", True),
+])
+def test_applicability_rule_against_flash_point_tables(cas, smiles, has_flash_point):
+    from chemicals import safety
+
+    assert bool(safety.T_flash_methods(cas)) == has_flash_point  # the table says so
+    assert flash.flash_estimate_applies(Chem.MolFromSmiles(smiles)) == has_flash_point
+
+
+def test_applicability_needs_carbon():
+    # no carbon: outside the organic liquids the correlations were fitted on (Catoire & Naudet 2004;
+    # Satyanarayana & Rao 1992); water has no flash point (chemicals.safety lists none for 7732-18-5)
+    from chemicals import safety
+
+    assert not safety.T_flash_methods("7732-18-5")
+    assert not flash.flash_estimate_applies(Chem.MolFromSmiles("O"))
+    assert not flash.flash_estimate_applies(Chem.MolFromSmiles("N"))
+    assert not flash.flash_estimate_applies(None)

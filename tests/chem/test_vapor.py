@@ -119,24 +119,25 @@ def test_myrdal_yalkowsky_hand_calculation_toluene():
 
 def test_hbn_and_tau_hand_values():
     # Ethanol: one OH, M 46.07 g/mol -> HBN = 1/46.07 = 0.021707 mol/g.
-    assert vapor.hydrogen_bond_number(1, 0, 0, 0.04607) == pytest.approx(1 / 46.07)
+    assert vapor.hydrogen_bond_number(1, 0, 0, 46.07) == pytest.approx(1 / 46.07)
     # Butylamine: 0.33*sqrt(1)/73.14
-    assert vapor.hydrogen_bond_number(0, 0, 1, 0.07314) == pytest.approx(0.33 / 73.14)
+    assert vapor.hydrogen_bond_number(0, 0, 1, 73.14) == pytest.approx(0.33 / 73.14)
     # n-hexane: 4 non-terminal sp3 carbons -> tau = 3; benzene -> 0 (clamped).
     assert vapor.flexibility_tau(4, 0, 0) == 3.0
     assert vapor.flexibility_tau(0, 0, 1) == 0.0
 
 
-def test_molar_mass_in_grams_is_rejected():
-    with pytest.raises(ValueError, match="g/mol"):
-        vapor.hydrogen_bond_number(1, 0, 0, 46.07)
+def test_molar_mass_in_kilograms_is_rejected():
+    # 0.04607 is ethanol in kg/mol: below one hydrogen atom (1.008 g/mol) in the unit taken
+    with pytest.raises(ValueError, match="kg/mol"):
+        vapor.hydrogen_bond_number(1, 0, 0, 0.04607)
 
 
 @pytest.mark.parametrize(
     "cas, tau, n_oh, molar_mass, rel",
     [
-        ("108-88-3", 0.0, 0, 0.09214, 0.01),  # toluene: 33002 vs CRC 33180 J/mol
-        ("64-17-5", 0.0, 1, 0.04607, 0.08),  # ethanol: 41064 vs CRC 38560 (+6.5 %)
+        ("108-88-3", 0.0, 0, 92.14, 0.01),  # toluene: 33002 vs CRC 33180 J/mol
+        ("64-17-5", 0.0, 1, 46.07, 0.08),  # ethanol: 41064 vs CRC 38560 (+6.5 %)
     ],
 )
 def test_dhvb_against_crc(cas, tau, n_oh, molar_mass, rel):
@@ -174,6 +175,59 @@ def test_estimate_uncertainty_and_range():
     assert vapor.estimate_psat(298.15, 351.4, hbn=0.0217).u_ln == vapor.U_LN_PSAT_HBOND
     assert vapor.estimate_psat(298.15, 383.75).u_ln == vapor.U_LN_PSAT_HBOND  # unknown
     assert not vapor.estimate_psat(400.0, 383.75).in_range
+
+
+def _dlnp_dtb_closed_form(T, Tb, tau, hbn):
+    # derivative of Myrdal & Yalkowsky (1997), log10 P/atm = -dSvb (Tb - T)/(19.1 T)
+    #   - dCp/19.1 ((Tb - T)/T - ln(Tb/T)), with respect to Tb, times ln 10
+    d_svb, d_cp = 86.0 + 0.4 * tau + 1421.0 * hbn, 90.0 + 2.1 * tau
+    return math.log(10.0) * (-d_svb / (19.1 * T) - d_cp / 19.1 * (1.0 / T - 1.0 / Tb))
+
+
+@pytest.mark.parametrize("T, Tb, tau, hbn", [
+    (298.15, 383.75, 0.0, 0.0),  # toluene
+    (293.15, 351.4, 0.0, 1 / 46.07),  # ethanol
+    (298.15, 490.0, 6.0, 0.0),  # a flexible, high-boiling chain
+])
+def test_tb_sensitivity_matches_the_closed_form(T, Tb, tau, hbn):
+    assert vapor.ln_psat_tb_sensitivity(T, Tb, tau, hbn) == pytest.approx(
+        _dlnp_dtb_closed_form(T, Tb, tau, hbn), rel=1e-5)
+
+
+def test_boiling_point_uncertainty_is_combined_as_in_the_gum():
+    # JCGM 100:2008 eq. 10 for uncorrelated inputs: u^2 = u_model^2 + (dlnP/dTb u_Tb)^2
+    T, Tb, u_tb = 298.15, 383.75, 12.0
+    plain = vapor.estimate_psat(T, Tb, h_bond_donor=False)
+    combined = vapor.estimate_psat(T, Tb, h_bond_donor=False, u_Tb=u_tb)
+    assert plain.u_ln == vapor.U_LN_PSAT_NON_HBOND and combined.value == plain.value
+    assert combined.u_ln == pytest.approx(math.hypot(vapor.U_LN_PSAT_NON_HBOND,
+                                                     _dlnp_dtb_closed_form(T, Tb, 0.0, 0.0) * u_tb), rel=1e-5)
+    assert combined.u == pytest.approx(combined.value * combined.u_ln)
+    # first order is good here: a Monte Carlo spread of ln P over Tb ~ N(Tb, u_Tb) agrees within 5 %
+    rng = np.random.default_rng(3)
+    samples = [math.log(vapor.myrdal_yalkowsky_psat(T, tb)) for tb in rng.normal(Tb, u_tb, 4000)]
+    assert float(np.std(samples)) == pytest.approx(abs(_dlnp_dtb_closed_form(T, Tb, 0.0, 0.0)) * u_tb, rel=0.05)
+
+
+def test_dhvap_uncertainty_covers_about_two_thirds_of_crc():
+    # a standard uncertainty is a one-sigma interval: about 68 % of the CRC values
+    # (chemicals.phase_change.Hvap_data_CRC, HvapTb at Tb) should lie within it
+    from chemicals import phase_change
+
+    report = report_volatility()
+    phase_change._load_phase_change_constants()
+    data = phase_change.Hvap_data_CRC.dropna(subset=["HvapTb", "Tb"])
+    inside = total = 0
+    for cas, r in data.iterrows():
+        s = report.structure(report.smiles_of(cas) or "")
+        if s is None:
+            continue
+        e = vapor.estimate_dhvap_at_tb(r.Tb, s.tau, s.hbn)
+        assert e.u == pytest.approx(vapor.U_REL_DHVAP_TB * e.value)
+        total += 1
+        inside += abs(e.value - r.HvapTb) <= e.u
+    assert total >= 400
+    assert 0.60 <= inside / total <= 0.76  # measured 0.66
 
 
 @pytest.fixture(scope="module")

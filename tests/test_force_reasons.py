@@ -1,4 +1,5 @@
-"""The force reasons agree with the force label and with the numbers they quote.
+"""The force reasons (written in builder/derive/forces.py from the chemistry's facts) agree with the
+force label and with the numbers they quote.
 
 Structures and boiling points: 60 organic compounds drawn at random (seed 7) from the CRC
 Handbook 95th ed. "Physical Constants of Organic Compounds" table as shipped in chemicals 1.5.2
@@ -14,6 +15,7 @@ import pytest
 from rdkit import Chem
 
 from builder.chem.forces import force_profile
+from builder.derive.forces import force_reasons
 
 chemicals = pytest.importorskip("chemicals")
 from chemicals import miscdata  # noqa: E402
@@ -54,7 +56,7 @@ def test_the_sample_is_large_enough():
 @pytest.mark.parametrize(("smiles", "cas", "tb"), STRUCTURES, ids=[c for _, c, _ in STRUCTURES])
 def test_reasons_agree_with_the_label_and_the_numbers(smiles, cas, tb):
     fp = force_profile(smiles, tb)
-    text = " ".join(fp.reasons)
+    text = " ".join(force_reasons(fp))
     mol = Chem.MolFromSmiles(smiles)
     polar = fp.dominant != "dispersion"
     # the label and the sentence about the force excess never contradict each other
@@ -93,9 +95,36 @@ def test_reasons_agree_with_the_label_and_the_numbers(smiles, cas, tb):
 def test_the_cases_a_reader_tripped_over():
     crc = miscdata.CRC_organic_data
     cis = force_profile("Cl/C=C\\Cl", float(crc.loc["156-59-2", "Tb"]))
-    assert cis.dominant == "dipole-dipole" and "chain-like" not in " ".join(cis.reasons)
-    assert "does not mean the dipole–dipole attraction is absent" in cis.reasons[-1]
+    cis_reasons = force_reasons(cis)
+    assert cis.dominant == "dipole-dipole" and "chain-like" not in " ".join(cis_reasons)
+    assert "does not mean the dipole–dipole attraction is absent" in cis_reasons[-1]
     benzene = force_profile("c1ccccc1", float(crc.loc["71-43-2", "Tb"]))
-    assert benzene.dominant == "dispersion" and "stack face to face" in benzene.reasons[-1]
-    salt = force_profile("[Na+].[Cl-]", 1738.0)
-    assert not any(re.search(r"between all molecules", r) for r in salt.reasons)
+    assert benzene.dominant == "dispersion" and "stack face to face" in force_reasons(benzene)[-1]
+    salt = force_reasons(force_profile("[Na+].[Cl-]", 1738.0))
+    assert not any(re.search(r"between all molecules", r) for r in salt)
+    assert "salt of the ions" in salt[0]
+
+
+# moved from tests/chem/test_forces.py: the sentences for the structural facts tested there
+# (classification by common practice, as in that file)
+
+@pytest.mark.parametrize("smiles", ["CCOCC", "CC(C)=O", "CCN(CC)CC", "C1COCCO1"])
+def test_acceptor_only_molecules_say_they_accept_hydrogen_bonds(smiles):
+    assert any("water or alcohols" in r for r in force_reasons(force_profile(smiles)))
+
+
+def test_symmetric_molecule_reason_names_cancelling_bonds():
+    assert any("C–Cl bond dipoles cancel by symmetry" in r for r in force_reasons(force_profile("ClC(Cl)(Cl)Cl")))
+
+
+def test_hydrogen_bonding_reason_names_the_donor_groups():
+    reasons = " ".join(force_reasons(force_profile("NCCO")))
+    assert "N–H (2 H)" in reasons and "O–H (1 H)" in reasons
+
+
+def test_unspecified_stereo_is_reported():
+    assert any("unspecified and decides the polarity" in r for r in force_reasons(force_profile("ClC=CCl")))
+    assert any("unspecified and decides the polarity" in r for r in force_reasons(force_profile("ClC1CCC(Cl)CC1")))
+    for specified in ("Cl/C=C/Cl", "Cl/C=C\\Cl"):
+        assert not any("unspecified" in r for r in force_reasons(force_profile(specified)))
+    assert any("mirror-image forms" in r for r in force_reasons(force_profile("CCC(C)O")))
