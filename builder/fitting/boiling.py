@@ -47,12 +47,14 @@ from rdkit import Chem, RDLogger
 from builder.chem.boiling import (
     DESCRIPTORS,
     MODEL_PATH,
+    STEREO_FEATURES,
     TreeModel,
     atom_environments,
     check_structure,
     descriptor_row,
     joback_estimate,
     joback_stein_brown_estimate,
+    stereo_features,
     tree_estimate,
 )
 from builder.chem.joback import JOBACK_TB
@@ -190,7 +192,7 @@ def fit(records: list[Record]) -> dict[str, Any]:
     vocab = environment_vocabulary(train)
     env_index = {k: i for i, k in enumerate(vocab)}
     mols = [Chem.MolFromSmiles(r.smiles) for r in train]
-    x = np.array([descriptor_row(m, env_index) for m in mols])
+    x = np.array([descriptor_row(m, env_index) + stereo_features(m) for m in mols])
     base = x[:, len(JOBACK_TB) + DESCRIPTORS.index("joback_sb_K")]
     y = np.array([r.tb_K for r in train]) - base
     fold = np.array([split_hash(r.inchikey[::-1]) % FOLDS for r in train])
@@ -217,6 +219,7 @@ def fit(records: list[Record]) -> dict[str, Any]:
         "groups": [name for name, _, _ in JOBACK_TB],
         "descriptors": list(DESCRIPTORS),
         "environments": vocab,
+        "stereo_features": list(STEREO_FEATURES),
         "trees": trees,
         "uncertainty": {
             "basis": f"{FOLDS}-fold out-of-fold residuals on the training rows",
@@ -260,7 +263,47 @@ def validate(records: list[Record], model: TreeModel) -> dict[str, Any]:
         "joback_stein_brown": joback_stein_brown_estimate,
         "joback_sb_trees": lambda m: tree_estimate(m, model),
     }
-    return validate_rows(held, funcs, "joback_sb_trees")
+    table = validate_rows(held, funcs, "joback_sb_trees")
+    table["stereo_pairs"] = stereo_pair_order(records, model)
+    return table
+
+
+PAIR_MIN_DIFFERENCE_K = 5.0
+
+
+def stereo_pair_order(records: list[Record], model: TreeModel) -> dict[str, Any]:
+    """How often stereoisomer pairs come out in the measured order.
+
+    A pair is two CRC rows with the same InChIKey first block (connectivity) and different
+    full InChIKeys whose measured boiling points differ by at least
+    ``PAIR_MIN_DIFFERENCE_K``. "specified" keeps the pairs whose SMILES leave no stereo
+    element unspecified (so the structures can differ at all); the pairs share a side of
+    the split, and most are training rows.
+    """
+    from builder.chem.structure3d import unspecified_stereo
+
+    groups: dict[str, list[Record]] = {}
+    for record in records:
+        groups.setdefault(record.inchikey[:14], []).append(record)
+    pairs = []
+    for group in groups.values():
+        for i, first in enumerate(group):
+            for second in group[i + 1:]:
+                if first.inchikey == second.inchikey or abs(first.tb_K - second.tb_K) < PAIR_MIN_DIFFERENCE_K:
+                    continue
+                estimates = [tree_estimate(Chem.MolFromSmiles(r.smiles), model).value_K for r in (first, second)]
+                specified = not any(unspecified_stereo(Chem.MolFromSmiles(r.smiles)) for r in (first, second))
+                right = (estimates[0] - estimates[1]) * (first.tb_K - second.tb_K) > 0
+                pairs.append({"names": [first.name, second.name], "measured_K": [first.tb_K, second.tb_K],
+                              "estimate_K": [round(e, 1) for e in estimates], "specified": specified,
+                              "held_out": first.held_out, "right_order": right})
+    chosen = [p for p in pairs if p["specified"]]
+    return {
+        "rule": f"same InChIKey[:14], different InChIKey, measured Tb differ by >= {PAIR_MIN_DIFFERENCE_K} K",
+        "n": len(pairs), "right_order": sum(p["right_order"] for p in pairs),
+        "n_specified": len(chosen), "right_order_specified": sum(p["right_order"] for p in chosen),
+        "pairs": sorted(pairs, key=lambda p: p["names"]),
+    }
 
 
 def validate_rows(held: list[Record], funcs: dict[str, Any], main_method: str) -> dict[str, Any]:
@@ -321,6 +364,10 @@ def format_table(validation: dict[str, Any]) -> str:
                 f"{fmt(s['median_ae_K'])} {fmt(s['bias_K'])} {fmt(s['rmse_K'])} "
                 f"{fmt(s.get('interval90_coverage'))}"
             )
+    pairs = validation.get("stereo_pairs")
+    if pairs:
+        lines.append(f"stereoisomer pairs in the measured order: {pairs['right_order']} of {pairs['n']}; "
+                     f"with every stereo element specified: {pairs['right_order_specified']} of {pairs['n_specified']}")
     return "\n".join(lines)
 
 

@@ -132,6 +132,39 @@ def test_pentane_isomers_branching_lowers_tb():
     assert tb("CCCCC") > tb("CC(C)CC") > tb("CC(C)(C)C")
 
 
+@pytest.mark.parametrize(
+    ("higher", "lower", "cas_higher", "cas_lower"),
+    [
+        ("Cl/C=C\\Cl", "Cl/C=C/Cl", "156-59-2", "156-60-5"),  # 1,2-dichloroethene: cis above trans
+        ("COC(=O)/C=C\\C(=O)OC", "COC(=O)/C=C/C(=O)OC", "624-48-6", "624-49-7"),  # maleate above fumarate
+        ("C/C=C/C(=O)O", "C/C=C\\C(=O)O", "107-93-7", "503-64-0"),  # 2-butenoic acid: trans above cis
+    ],
+    ids=["1,2-dichloroethene", "dimethyl-maleate-fumarate", "2-butenoic-acid"],
+)
+def test_stereoisomers_come_out_in_the_measured_order(higher, lower, cas_higher, cas_lower):
+    # Measured order from the CRC Handbook table in chemicals 1.5.2 (CRC_ORG); these rows
+    # are training rows of the model, so this checks that the stereo features reach the
+    # estimate at all (the pair figure over the whole table is in boiling_validation.json).
+    from chemicals.phase_change import Tb_sources
+
+    crc = Tb_sources["CRC_ORG"]["Tb"]
+    assert crc[cas_higher] > crc[cas_lower] + 5
+    assert tb(higher) > tb(lower)
+
+
+@pytest.mark.slow
+def test_stereo_pair_order_over_the_crc_table():
+    # Stereoisomer pairs (same connectivity, CRC Tb differing by >= 5 K, chemicals 1.5.2).
+    # Measured with the shipped model: 10 of 20 in the right order, 6 of 10 where both
+    # SMILES specify all stereo (misses: diethyl maleate/fumarate by 0.5 K, 1,3-dichloro-
+    # propene, and two dimethylcyclohexanes, whose ring stereo the 2D features cannot
+    # see). Before the stereo features: 0 of 20 (every pair got equal estimates).
+    pairs = validation()["stereo_pairs"]
+    assert pairs["n"] >= 15
+    assert pairs["right_order"] >= 0.45 * pairs["n"]
+    assert pairs["right_order_specified"] >= 0.5 * pairs["n_specified"]
+
+
 def test_alcohol_above_ether_of_same_formula():
     assert tb("CCCCO") > tb("CCOCC") + 30  # measured 390.9 vs 307.6 K
 
