@@ -133,7 +133,13 @@ def cmd_check(args) -> int:
     if catalog is not None:
         from builder.review.plausibility import check_catalog, check_files
 
-        derived = derive_catalog(catalog, jobs=args.jobs, cache=_cache_for(args))
+        from builder.review.plausibility import whole_catalog
+
+        neighbours = ()
+        if files:  # a checked mixture is derived from its components, checked or not
+            named = {e.id for e in catalog.entries}
+            neighbours = tuple(e for e in whole_catalog(Path(args.entries), catalog).entries if e.id not in named)
+        derived = derive_catalog(catalog, jobs=args.jobs, cache=_cache_for(args), neighbours=neighbours)
         plausible = check_files(Path(args.entries), catalog, derived) if files else check_catalog(catalog, derived)
         diagnostics = sorted(diagnostics + [f for d in derived for f in d.findings] + plausible)
     _print_diagnostics(diagnostics)
@@ -143,6 +149,77 @@ def cmd_check(args) -> int:
     print(f"cohesion check: {checked}, {_count(n_err, 'error')}, {_count(n_warn, 'warning')}", file=sys.stderr)
     if n_err or (args.strict and n_warn):
         return EXIT_ENTRIES
+    return EXIT_OK
+
+
+def cmd_substitute(args) -> int:
+    from builder.chem.solvency import CAUTION
+    from builder.derive.catalog import derive_catalog
+    from builder.derive.solvency import DEFAULT_MAX_RA, sphere_matches, substitutes_for
+    from builder.load.entries import load_catalog
+
+    catalog, diagnostics = load_catalog(Path(args.entries))
+    if catalog is None:
+        _print_diagnostics(diagnostics)
+        return EXIT_ENTRIES
+    ids = [e.id for e in catalog.entries]
+    if args.id not in ids:
+        import difflib
+        close = difflib.get_close_matches(args.id, ids, n=1)
+        print(f"cohesion substitute: no entry '{args.id}'" + (f" (did you mean '{close[0]}'?)" if close else ""),
+              file=sys.stderr)
+        return EXIT_USAGE
+    derived = derive_catalog(catalog, jobs=args.jobs, cache=_cache_for(args))
+    by_id = {d.entry.id: d for d in derived}
+    target = by_id[args.id]
+    max_ra = DEFAULT_MAX_RA if args.max_ra is None else args.max_ra
+    if target.entry.hansen_sphere is not None:
+        matches = sphere_matches(target, derived)
+        if args.json:
+            print(json.dumps({"target": args.id, "sphere": True, "caution": CAUTION, "liquids": [
+                {"id": m.id, "ra": round(m.ra, 3), "red": round(m.red, 3), "verdict": m.verdict} for m in matches]},
+                ensure_ascii=False, indent=1))
+            return EXIT_OK
+        print(f"{target.entry.name}: catalog liquids against its solubility sphere (RED = Ra/R0)")
+        for m in matches:
+            print(f"  {by_id[m.id].entry.name:<32} Ra {m.ra:5.1f} MPa½  RED {m.red:4.2f}  {m.verdict}")
+        print(CAUTION)
+        return EXIT_OK
+    if target.get("hansen_delta_d") is None or target.label("physical_state") is None \
+            or target.label("physical_state").code != "liquid":
+        print(f"cohesion substitute: '{args.id}' is not a liquid with Hansen parameters", file=sys.stderr)
+        return EXIT_ENTRIES
+    found = substitutes_for(target, derived, max_ra, blends=args.blends, safer_only=False)
+
+    def side(comparisons):
+        return [{"criterion": c.criterion, "candidate": sorted(c.candidate) if isinstance(c.candidate, frozenset)
+                 else c.candidate, "target": sorted(c.target) if isinstance(c.target, frozenset) else c.target}
+                for c in comparisons]
+
+    if args.json:
+        rows = []
+        for c in found:
+            row = {"id": c.id} if c.id else {"blend": [[i, round(phi, 4)] for i, phi in c.blend]}
+            row.update(ra=round(c.ra, 3), better=side(c.better), worse=side(c.worse))
+            rows.append(row)
+        print(json.dumps({"target": args.id, "max_ra": max_ra, "caution": CAUTION, "candidates": rows},
+                         ensure_ascii=False, indent=1))
+        return EXIT_OK
+    from builder.publish.templating import comparison_text
+
+    print(f"{target.entry.name}: catalog liquids{' and blends' if args.blends else ''} within Ra {max_ra:g} MPa½, "
+          "safest first")
+    for c in found:
+        name = by_id[c.id].entry.name if c.id else " + ".join(f"{by_id[i].entry.name} {100 * phi:.0f} % v/v"
+                                                              for i, phi in c.blend)
+        print(f"  {name}  (Ra {c.ra:.1f} MPa½)")
+        if c.better:
+            print(f"      better: {comparison_text(c.better)}")
+        if c.worse:
+            print(f"      worse:  {comparison_text(c.worse)}")
+    if not found:
+        print("  none within that distance")
+    print(CAUTION)
     return EXIT_OK
 
 
@@ -165,7 +242,11 @@ def cmd_new(args) -> int:
     from builder.review.scaffold import ScaffoldError, new_entry
 
     try:
-        path, added = new_entry(Path(args.entries), args.name, args.smiles, args.cas, args.from_reference)
+        if bool(args.smiles) == bool(args.mix):
+            print("cohesion new: give --smiles for a substance or --mix components for a mixture", file=sys.stderr)
+            return EXIT_USAGE
+        path, added = new_entry(Path(args.entries), args.name, args.smiles, args.cas, args.from_reference,
+                                mix=args.mix)
     except ScaffoldError as exc:
         print(f"cohesion new: {exc}", file=sys.stderr)
         return exc.code
@@ -275,6 +356,35 @@ def cmd_profile(args) -> int:
         print(f"cohesion profile: {exc}", file=sys.stderr)
         return EXIT_USAGE
     status = EXIT_OK
+    if args.mix:
+        from builder.derive.profile import profile_mixture
+
+        if args.smiles:
+            print("cohesion profile: give either SMILES or --mix components, not both", file=sys.stderr)
+            return EXIT_USAGE
+        pairs = []
+        for item in args.mix:
+            smiles, sep, text = item.rpartition("=")
+            if not sep or not smiles.strip() or not text.strip():
+                print(f"cohesion profile: --mix {item!r}: expected SMILES=FRACTION, e.g. 'CCO=40 % w/w'",
+                      file=sys.stderr)
+                return EXIT_USAGE
+            pairs.append((smiles.strip(), text.strip()))
+        from builder.load.composition import FractionProblem, composition_of_pairs
+
+        try:
+            result = profile_mixture(composition_of_pairs(pairs))
+        except FractionProblem as exc:
+            result = {"input": [f"{s}={t}" for s, t in pairs],
+                      "error": str(exc) + (f" ({exc.hint})" if exc.hint else "")}
+        if args.json:
+            print(json.dumps(result, ensure_ascii=False, sort_keys=False))
+        else:
+            _print_profile_text(result)
+        return EXIT_ENTRIES if "error" in result else EXIT_OK
+    if not args.smiles:
+        print("cohesion profile: give SMILES (or - for standard input), or --mix components", file=sys.stderr)
+        return EXIT_USAGE
     for smiles in _smiles_inputs(args.smiles):
         try:
             result = profile(smiles, given)
@@ -317,10 +427,24 @@ def _print_profile_text(result: dict) -> None:
     from builder.core.units import format_value
     from builder.derive.fire import NOTES_DISCLAIMER
 
+    shown_input = " + ".join(result["input"]) if isinstance(result["input"], list) else result["input"]
     if "error" in result:
-        print(f"{_shown(result['input'])}: error: {result['error']}")
+        print(f"{_shown(shown_input)}: error: {result['error']}")
         return
-    print(f"{result['input']}  →  {result['smiles']}  {result['formula']}  {result['inchikey']}")
+    if "composition" in result:
+        print(f"mixture  {shown_input}")
+        for row in result["composition"]:
+            cells = [f"{row['name']:<24}", f"stated {row['stated']:<12}"]
+            for key, what in (("mass_fraction", "w/w"), ("mole_fraction", "mol/mol"), ("vapor_fraction_20C", "of vapor at 20 °C")):
+                if row.get(key):
+                    cells.append(f"{format_value(row[key]['value'], '%', None)} {what}")
+            print("  " + "  ".join(cells))
+        model = result["activity_model"]
+        print(f"  activity coefficients: {model['name']}" + (f" ({model['note']})" if model["note"] else ""))
+    elif "composition" not in result and "mixture_problem" in result:
+        print(f"mixture  {shown_input}: {result['mixture_problem']['text']}")
+    else:
+        print(f"{result['input']}  →  {result['smiles']}  {result['formula']}  {result['inchikey']}")
     forces = result.get("forces", {})
     for label, val in _profile_rows(result, forces):
         prov = val["provenance"]
@@ -414,7 +538,10 @@ def parser() -> argparse.ArgumentParser:
 
     nw = sub.add_parser("new", help="start an entry file from a name and a SMILES")
     nw.add_argument("name", help="the material's name; the entry id is made from it")
-    nw.add_argument("--smiles", required=True, help="the structure")
+    nw.add_argument("--smiles", help="the structure (a substance)")
+    nw.add_argument("--mix", action="append", default=[], metavar="'ID=FRACTION'",
+                    help="a component of a mixture: an entry id or a SMILES with its fraction, e.g. "
+                         "--mix 'ethanol=40 %% w/w' --mix 'O=balance'")
     nw.add_argument("--cas", help="CAS Registry Number (check digit validated)")
     nw.add_argument("--entries", default="entries", help="entries folder (default: entries)")
     nw.add_argument("--from-reference", action="store_true",
@@ -425,8 +552,23 @@ def parser() -> argparse.ArgumentParser:
     sc.add_argument("--entries", default="entries", help="entries folder (default: entries)")
     sc.set_defaults(func=cmd_schema)
 
-    pr = sub.add_parser("profile", help="derive properties for SMILES strings")
-    pr.add_argument("smiles", nargs="+", help="SMILES strings, files with one SMILES a line, or - for stdin")
+    su = sub.add_parser("substitute", help="liquids of similar solvency ranked by safety; for a resin, the "
+                                            "liquids inside its solubility sphere")
+    su.add_argument("id", help="the entry id of a catalog liquid or resin")
+    su.add_argument("--entries", default="entries", help="entries folder (default: entries)")
+    su.add_argument("--max-ra", type=float, default=None, metavar="R",
+                    help="largest Hansen distance Ra of a candidate, MPa½ (default 6)")
+    su.add_argument("--blends", action="store_true", help="also two-solvent blends at their best volume fraction")
+    su.add_argument("--json", action="store_true", help="the candidates as JSON")
+    su.add_argument("--jobs", type=int, default=None, help="worker processes for deriving")
+    su.add_argument("--no-cache", action="store_true", help="derive everything afresh")
+    su.set_defaults(func=cmd_substitute)
+
+    pr = sub.add_parser("profile", help="derive properties for SMILES strings, or for a mixture (--mix)")
+    pr.add_argument("smiles", nargs="*", help="SMILES strings, files with one SMILES a line, or - for stdin")
+    pr.add_argument("--mix", action="append", default=[], metavar="'SMILES=FRACTION'",
+                    help="a component of one mixture, e.g. --mix 'CCO=40 %% w/w' --mix 'O=balance' (fractions "
+                         "as in an entry's composition: %% w/w, %% v/v, mol/mol, a range 10-20 %% w/w, or balance)")
     pr.add_argument("--json", action="store_true", help="one JSON object a line")
     pr.add_argument("--given", action="append", default=[], metavar='NAME="VALUE UNIT"',
                     help="a known value that takes precedence over estimates, e.g. boiling_point=\"34.6 °C\"")

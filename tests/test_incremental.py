@@ -183,7 +183,7 @@ def test_a_defect_while_deriving_is_an_error_on_the_entry_not_a_traceback(make_e
                                                                           capsys):
     import builder.derive.catalog as derive_catalog
 
-    def broken(entry, stores):
+    def broken(entry, stores, components=None):
         raise ZeroDivisionError("float division by zero")
 
     monkeypatch.setattr(derive_catalog, "derive_entry", broken)

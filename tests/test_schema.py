@@ -92,7 +92,21 @@ def _consistent_antoine(doc):
     return doc
 
 
-ENTRIES = from_schema(SCHEMA).filter(VALIDATOR.is_valid).map(_consistent_antoine)
+def _consistent_composition(doc):
+    """A composition whose fractions can sum to 100 % and whose components exist, on a mixture.
+
+    The schema checks each component alone; sums, existing ids and the type a composition needs
+    are the loader's checks across fields.
+    """
+    if "composition" in doc:
+        doc["type"] = "mixture"
+        doc.pop("smiles", None)
+        doc["composition"] = [{"smiles": "CCO", "name": "ethanol", "fraction": "10-40 % w/w"},
+                              {"smiles": "O", "name": "water", "fraction": "balance"}]
+    return doc
+
+
+ENTRIES = from_schema(SCHEMA).filter(VALIDATOR.is_valid).map(_consistent_antoine).map(_consistent_composition)
 SETTINGS = settings(max_examples=40, deadline=None, derandomize=True,
                     suppress_health_check=[HealthCheck.function_scoped_fixture, HealthCheck.too_slow,
                                            HealthCheck.filter_too_much])

@@ -84,6 +84,20 @@ class Antoine:
 
 
 @dataclass(frozen=True)
+class HansenSet:
+    """Hansen solubility parameters as an entry states them (MPa½): a material's own (``hansen``),
+    or a resin's solubility sphere (``hansen_sphere``, with its interaction ``radius``)."""
+
+    delta_d: float
+    delta_p: float
+    delta_h: float
+    source: str
+    provenance: str
+    radius: float | None = None
+    note: str | None = None
+
+
+@dataclass(frozen=True)
 class CatalogInfo:
     """Site-specific facts: catalog code, where it is kept, storage limits."""
 
@@ -93,6 +107,37 @@ class CatalogInfo:
     container: str | None = None
     process_temperature: Value | None = None
     owner: str | None = None
+
+
+@dataclass(frozen=True)
+class Fraction:
+    """How much of a mixture one component is, as the entry states it.
+
+    ``low`` and ``high`` are fractions of one (equal for an exact figure) on ``basis``
+    (``mass``, ``volume`` or ``mole``); a ``balance`` component is whatever the others
+    leave and has neither bounds nor a basis of its own.
+    """
+
+    text: str
+    low: float | None = None
+    high: float | None = None
+    basis: str | None = None
+    balance: bool = False
+
+    @property
+    def is_range(self) -> bool:
+        return not self.balance and self.low != self.high
+
+
+@dataclass(frozen=True)
+class Component:
+    """One component of a mixture: another entry of the catalog (``entry_id``) or an inline
+    structure (``smiles`` with a ``name``)."""
+
+    name: str
+    fraction: Fraction
+    entry_id: str | None = None
+    smiles: str | None = None
 
 
 @dataclass(frozen=True)
@@ -118,6 +163,11 @@ class Entry:
     declared_molar_mass: float | None = None
     #: where the hazard statements come from (the entry's ``hazard_source``), None when it names none
     hazard_provenance: Provenance | None = None
+    #: a mixture's components as stated (``composition``); empty for a substance
+    composition: tuple[Component, ...] = ()
+    #: stated Hansen parameters (``properties.hansen``) and a resin's solubility sphere (``properties.hansen_sphere``)
+    hansen: HansenSet | None = None
+    hansen_sphere: HansenSet | None = None
 
     def line_of(self, dotted: str) -> tuple[int, int]:
         while dotted:

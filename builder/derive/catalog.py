@@ -27,17 +27,46 @@ def available_cpus() -> int:
         return max(1, os.cpu_count() or 1)
 
 
-def derive_key(entry: Entry, stores: dict) -> str:
-    """The cache key of ``derive_entry(entry, stores)``."""
-    return key_of("derive", code_version(), settings_key(), repr(entry), repr(sorted(stores.items())))
+def derive_key(entry: Entry, stores: dict, components: tuple[Entry, ...] = ()) -> str:
+    """The cache key of ``derive_entry(entry, stores)`` (a mixture: and of its component entries)."""
+    return key_of("derive", code_version(), settings_key(), repr(entry), repr(sorted(stores.items())),
+                  *(repr(c) for c in components))
 
 
-def derive_safely(entry: Entry, stores: dict) -> tuple[Derived, bool]:
+def component_ids(entry: Entry, by_id: dict[str, Entry]) -> list[str]:
+    """The entry ids a mixture's derivation reads: its components and a component mixture's components."""
+    out: list[str] = []
+    for comp in entry.composition:
+        if comp.entry_id is None or comp.entry_id not in by_id:
+            continue
+        inner = by_id[comp.entry_id]
+        out += [c.entry_id for c in inner.composition if c.entry_id and c.entry_id in by_id]
+        out.append(comp.entry_id)
+    return list(dict.fromkeys(out))
+
+
+def entry_keys(catalog: Catalog) -> dict[str, str]:
+    """Each entry's derive key, by id: what its derived record is made from."""
+    by_id = {e.id: e for e in catalog.entries}
+    return {e.id: derive_key(e, {k: catalog.locations[k] for k in e.catalog.locations},
+                             tuple(by_id[i] for i in component_ids(e, by_id))) for e in catalog.entries}
+
+
+def stage_of(entry: Entry, by_id: dict[str, Entry]) -> int:
+    """0 for a substance, 1 for a mixture of substances, 2 for a mixture holding a mixture."""
+    if not entry.composition:
+        return 0
+    return 2 if any(c.entry_id and by_id.get(c.entry_id) is not None and by_id[c.entry_id].composition
+                    for c in entry.composition) else 1
+
+
+def derive_safely(entry: Entry, stores: dict, components: dict | None = None) -> tuple[Derived, bool]:
     """``(derive_entry(...), True)``; a failure of the builder itself becomes ``(an error on the entry, False)``."""
     try:
-        return derive_entry(entry, stores), True
+        return derive_entry(entry, stores, components), True
     except Exception as exc:  # noqa: BLE001 - any defect of ours must still end as a diagnostic
-        line, col = entry.line_of("smiles") if entry.smiles else (1, 1)
+        line, col = (entry.line_of("smiles") if entry.smiles
+                     else entry.line_of("composition") if entry.composition else (1, 1))
         return Derived(entry, None, findings=(Diagnostic(
             entry.path, line, col, "error",
             f"the builder failed while deriving this entry ({type(exc).__name__}: {exc})",
@@ -45,47 +74,71 @@ def derive_safely(entry: Entry, stores: dict) -> tuple[Derived, bool]:
 
 
 def _derive_pair(pair):
-    entry, stores = pair
-    return derive_safely(entry, stores)
+    entry, stores, components = pair
+    return derive_safely(entry, stores, components)
 
 
 def derive_catalog(catalog: Catalog, jobs: int | None = 1, cache: Cache | None = None,
-                   progress=None) -> tuple[Derived, ...]:
+                   progress=None, neighbours: tuple[Entry, ...] = ()) -> tuple[Derived, ...]:
     """Derive every entry, in catalog order.
 
     ``jobs``: worker processes (None: the CPUs available); ``cache``: where results are
     kept between builds; ``progress(done, total)`` is called as entries complete.
+    Substances first, then mixtures of them, then mixtures holding a mixture: a mixture
+    is derived from its components' results. ``neighbours``: entries outside ``catalog``
+    (when only some files are checked) that its mixtures may name; those named are derived
+    too, and not returned.
     """
     cache = cache or Cache(None)
-    tasks = []
-    for entry in catalog.entries:
-        stores = {k: catalog.locations[k] for k in entry.catalog.locations}
-        tasks.append((entry, stores, derive_key(entry, stores)))
-    results: list[Derived | None] = [cache.get("derive", key) for _, _, key in tasks]
-    todo = [i for i, r in enumerate(results) if r is None]
-    total, done = len(tasks), len(tasks) - len(todo)
-    if progress:
-        progress(done, total)
+    by_id = {e.id: e for e in (*neighbours, *catalog.entries)}
+    own = {e.id for e in catalog.entries}
+    needed = {i for e in catalog.entries for i in component_ids(e, by_id)} - own
+    todo_entries = [e for e in neighbours if e.id in needed] + list(catalog.entries)
+    results: dict[str, Derived] = {}
+    total = len(todo_entries)
+    state = {"done": 0}
     jobs = available_cpus() if jobs is None else max(1, jobs)
+    for stage in (0, 1, 2):
+        tasks = []
+        for entry in todo_entries:
+            if stage_of(entry, by_id) != stage:
+                continue
+            stores = {k: catalog.locations[k] for k in entry.catalog.locations if k in catalog.locations}
+            ids = component_ids(entry, by_id)
+            components = {i: results[i] for i in ids if i in results}
+            tasks.append((entry, stores, components,
+                          derive_key(entry, stores, tuple(by_id[i] for i in ids))))
+        _run_stage(tasks, results, jobs, cache, state, total, progress)
+    return tuple(results[e.id] for e in catalog.entries)
+
+
+def _run_stage(tasks, results, jobs, cache, state, total, progress) -> None:
+    found = [cache.get("derive", key) for *_, key in tasks]
+    todo = []
+    for task, hit in zip(tasks, found):
+        if hit is None:
+            todo.append(task)
+        else:
+            results[task[0].id] = hit
+    state["done"] += len(tasks) - len(todo)
+    if progress:
+        progress(state["done"], total)
+
+    def finished(task, derived, ok):
+        results[task[0].id] = derived
+        if ok:
+            cache.put("derive", task[3], derived)
+        state["done"] += 1
+        if progress:
+            progress(state["done"], total)
+
     if jobs > 1 and len(todo) >= MIN_PARALLEL and "fork" in multiprocessing.get_all_start_methods():
         context = multiprocessing.get_context("fork")
         with ProcessPoolExecutor(max_workers=min(jobs, len(todo)), mp_context=context) as pool:
             chunk = max(1, min(8, len(todo) // (jobs * 8)))
-            computed = pool.map(_derive_pair, [(tasks[i][0], tasks[i][1]) for i in todo], chunksize=chunk)
-            for i, (derived, ok) in zip(todo, computed):
-                results[i] = derived
-                if ok:
-                    cache.put("derive", tasks[i][2], derived)
-                done += 1
-                if progress:
-                    progress(done, total)
+            computed = pool.map(_derive_pair, [t[:3] for t in todo], chunksize=chunk)
+            for task, (derived, ok) in zip(todo, computed):
+                finished(task, derived, ok)
     else:
-        for i in todo:
-            entry, stores, key = tasks[i]
-            results[i], ok = derive_safely(entry, stores)
-            if ok:
-                cache.put("derive", key, results[i])
-            done += 1
-            if progress:
-                progress(done, total)
-    return tuple(results)  # type: ignore[arg-type]
+        for task in todo:
+            finished(task, *derive_safely(*task[:3]))

@@ -13,8 +13,8 @@ handling notes.
 """
 from __future__ import annotations
 
+from collections.abc import Mapping
 from dataclasses import dataclass, field
-from typing import Mapping
 
 from builder.chem.alerts import Alert, find_alerts
 from builder.chem.handling import Note
@@ -26,6 +26,8 @@ from builder.core.values import Label, Provenance, Value, computed
 from builder.derive.boiling import boiling_values
 from builder.derive.fire import Segment, fire_values
 from builder.derive.forces import Forces, forces_of
+from builder.derive.mixture import MixtureFacts, derive_mixture
+from builder.derive.solvency import hansen_values
 from builder.derive.state import state_values
 
 #: store temperature assumed when neither the entry nor its stores state one (K)
@@ -51,6 +53,8 @@ class Derived:
     #: the storage group and every class the material carries (builder/chem/storage.py); the group
     #: is also ``labels["storage_group"]``
     storage: Assignment | None = None
+    #: a mixture's composition table and how its equilibrium was computed (builder/derive/mixture.py)
+    mixture: MixtureFacts | None = None
 
     def get(self, name: str) -> Value | None:
         return self.values.get(name)
@@ -76,8 +80,12 @@ def hazard_label(entry: Entry) -> Label:
     return Label(", ".join(entry.hazard_statements), prov, tuple(entry.hazard_statements))
 
 
-def derive_entry(entry: Entry, locations: Mapping[str, Location] | None = None) -> Derived:
-    """Everything the catalog derives for ``entry`` (``locations``: the stores it names)."""
+def derive_entry(entry: Entry, locations: Mapping[str, Location] | None = None,
+                 components: Mapping[str, Derived] | None = None) -> Derived:
+    """Everything the catalog derives for ``entry`` (``locations``: the stores it names; ``components``:
+    for a mixture, the ``Derived`` of every entry its composition names, nested ones included)."""
+    if entry.type == "mixture" and entry.composition:
+        return _derive_mixture(entry, locations, components or {})
     identity = identify(entry.smiles) if entry.smiles else None
     mol = parse_smiles(entry.smiles)[0] if entry.smiles else None
     values: dict[str, Value] = {}
@@ -109,6 +117,8 @@ def derive_entry(entry: Entry, locations: Mapping[str, Location] | None = None) 
     labels.update(fire.labels)
     findings += fire.findings
     notes = tuple(fire.notes)
+    if entry.type == "substance":
+        values.update(hansen_values(entry, mol, values))
     if entry.hazard_statements:
         labels["hazard_statements"] = hazard_label(entry)
     alerts, storage = hazard_alerts_of(entry, identity, labels)
@@ -116,6 +126,20 @@ def derive_entry(entry: Entry, locations: Mapping[str, Location] | None = None) 
                                     storage.group)
     return Derived(entry, identity, frozen_map(values), frozen_map(labels), forces, notes, tuple(fire.curve),
                    tuple(findings), alerts, storage)
+
+
+def _derive_mixture(entry: Entry, locations, components) -> Derived:
+    result = derive_mixture(entry, components, locations, derive_inline=lambda e: derive_entry(e))
+    labels = dict(result.labels)
+    if entry.hazard_statements:
+        labels["hazard_statements"] = hazard_label(entry)
+    storage = result.storage
+    if storage is None:
+        storage = assign_group(entry.hazard_statements, (), None, None)
+    labels["storage_group"] = Label(storage.name, Provenance("rule", method="storage-group", note=storage.reason),
+                                    storage.group)
+    return Derived(entry, None, frozen_map(result.values), frozen_map(labels), None, tuple(result.notes),
+                   tuple(result.curve), tuple(result.findings), tuple(result.alerts), storage, result.facts)
 
 
 def hazard_alerts_of(entry: Entry, identity: Identity | None, labels: Mapping[str, Label]):

@@ -8,7 +8,9 @@ Relations:
   ``FUNCTIONAL_GROUPS``, the heteroatom counts and the number of branch points;
 - ``contrast``: molar mass within ``CONTRAST_MASS_RATIO`` of each other but a different
   dominant force (reciprocal) — the boiling points are shown side by side;
-- ``near-bp``: the ``NEAR_BP_COUNT`` entries with the nearest boiling points (not reciprocal).
+- ``near-bp``: the ``NEAR_BP_COUNT`` entries with the nearest boiling points (not reciprocal);
+- ``component`` and ``contained-in``: a mixture and the catalog entries its composition names,
+  with the fraction (both ways).
 """
 from __future__ import annotations
 
@@ -143,7 +145,12 @@ def cross_links(derived: tuple[Derived, ...]) -> dict[str, tuple[Link, ...]]:
         for _, oid, o in _nearest(with_bp, k, NEAR_BP_COUNT):
             links[d.entry.id].append(Link("near-bp", oid, f"boils at {_celsius(_bp(o))}, near this "
                                                            f"material's {_celsius(bp)}"))
-    order = {"isomer": 0, "homologue": 1, "contrast": 2, "near-bp": 3}
+    for d in derived:
+        for comp in d.entry.composition:
+            if comp.entry_id in links:
+                links[d.entry.id].append(Link("component", comp.entry_id, comp.fraction.text))
+                links[comp.entry_id].append(Link("contained-in", d.entry.id, comp.fraction.text))
+    order = {"component": 0, "contained-in": 1, "isomer": 2, "homologue": 3, "contrast": 4, "near-bp": 5}
     return {k: tuple(sorted(v, key=lambda l: (order[l.relation], l.target))) for k, v in links.items()}
 
 

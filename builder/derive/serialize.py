@@ -71,9 +71,47 @@ def storage_json(d: Derived) -> dict | None:
     return {**lab.as_dict(), "classes": list(d.storage.classes)}
 
 
+def mixture_json(d: Derived) -> dict:
+    """A mixture's own keys: ``composition`` (each component with its fractions as values),
+    ``bubble_point`` and ``dew_point`` at 101.325 kPa, ``vapor_composition_20C`` (each component's
+    share of the saturated vapor) and the activity model; empty for a substance."""
+    m = d.mixture
+    if m is None:
+        problem = d.label("mixture_problem")
+        return {"mixture_problem": problem.as_dict()} if problem is not None else {}
+    rows = [{"name": r.name, "id": r.entry_id, "smiles": r.smiles, "stated": r.stated,
+             "mass_fraction": r.mass_fraction.as_dict(), "mole_fraction": r.mole_fraction.as_dict(),
+             "vapor_fraction_20C": r.vapor_fraction_20C.as_dict() if r.vapor_fraction_20C else None,
+             "vapor_pressure_from": r.psat_basis, "flammable": r.flammable, "via": r.via} for r in m.rows]
+    out = {"composition": rows,
+           "bubble_point": d.get("boiling_point").as_dict() if d.get("boiling_point") else None,
+           "dew_point": d.get("dew_point").as_dict() if d.get("dew_point") else None,
+           "vapor_composition_20C": {r.name: r.vapor_fraction_20C.as_dict() for r in m.rows if r.vapor_fraction_20C},
+           "activity_model": {"name": m.activity_model, "note": m.activity_note},
+           "composition_ranges": {"ranged": m.ranged, "extreme_compositions": m.corners},
+           "unlike_interactions": m.force_note}
+    return out
+
+
+def hansen_json(d: Derived) -> dict:
+    """``{"hansen": {"delta_d", "delta_p", "delta_h"}}`` (each a value in MPa½), plus a stated
+    ``hansen_sphere``; empty when the entry has neither."""
+    out = {}
+    if all(d.get(k) is not None for k in ("hansen_delta_d", "hansen_delta_p", "hansen_delta_h")):
+        out["hansen"] = {k[7:]: d.get(k).as_dict() for k in ("hansen_delta_d", "hansen_delta_p", "hansen_delta_h")}
+    sphere = d.entry.hansen_sphere
+    if sphere is not None:
+        out["hansen_sphere"] = {"delta_d": sphere.delta_d, "delta_p": sphere.delta_p, "delta_h": sphere.delta_h,
+                                "radius": sphere.radius, "unit": "MPa^0.5",
+                                "provenance": {"kind": sphere.provenance, "source": sphere.source}}
+    return out
+
+
 def profile_json(d: Derived) -> dict:
     """The profile object: identity, forces, key values, category, band and handling notes."""
     out = identity_json(d)
+    out.update(mixture_json(d))
+    out.update(hansen_json(d))
     out["physical_state"] = physical_state_json(d)
     for name in profile_values():
         if d.get(name) is not None:
@@ -105,6 +143,8 @@ def entry_json(d: Derived, links=()) -> dict:
            "catalog": {"code": e.catalog.code, "locations": list(e.catalog.locations),
                        "container": e.catalog.container, "owner": e.catalog.owner}}
     out["identity"] = identity_json(d)
+    out.update(mixture_json(d))
+    out.update(hansen_json(d))
     out["values"] = {name: v.as_dict() for name, v in sorted(d.values.items())}
     out["labels"] = {name: lab.as_dict() for name, lab in sorted(d.labels.items())}
     if e.antoine is not None:

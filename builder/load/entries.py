@@ -25,6 +25,7 @@ from builder.core.model import (
     Catalog,
     CatalogInfo,
     Entry,
+    HansenSet,
     Location,
     Source,
     frozen_map,
@@ -40,6 +41,7 @@ from builder.core.units import (
 from builder.core.values import Provenance, Value
 from builder.load import entry_format as fmt
 from builder.load.cas import cas_problem
+from builder.load.composition import composition_problems, read_composition
 from builder.load.yamlsafe import MAX_BYTES, Document, line_col, read_yaml
 
 SPECIAL_FILES = ("sources.yaml", "locations.yaml")
@@ -370,10 +372,25 @@ def _read_antoine(r: _Reader, item, kp, sources) -> Antoine | None:
     if None not in limits and limits[0] >= limits[1]:
         r.error(kp + ("t_max",), "antoine t_max must be above t_min")
         return None
+    cited = _cited_source(r, item, kp, sources, "antoine")
+    if cited is None:
+        return None
+    source, kind = cited
+    if None in coeffs or None in units or None in limits or form is None:
+        return None
+    if problem := antoine_problem(*coeffs, form, pascal_per_unit, units[1] != "K", *limits):
+        r.error(kp, problem[0], problem[1], at_key=True)
+        return None
+    return Antoine(*coeffs, form, units[0], "°C" if units[1] == "degC" else units[1], limits[0], limits[1],
+                   source, kind, r.text(item, kp + ("note",)))
+
+
+def _cited_source(r: _Reader, item, kp, sources, what: str) -> tuple[str, str] | None:
+    """(source key, provenance kind) of a block that must cite a source (``antoine``, ``hansen``)."""
     source = r.text(item, kp + ("source",))
     if source is None:
         if item.get("source") is None:
-            r.error(kp, "antoine names no source", "add 'source:' with a key of entries/sources.yaml")
+            r.error(kp, f"{what} names no source", "add 'source:' with a key of entries/sources.yaml")
         return None
     if source not in sources:
         r.error(kp + ("source",), f"unknown source '{source}'", "add it to entries/sources.yaml")
@@ -382,13 +399,33 @@ def _read_antoine(r: _Reader, item, kp, sources) -> Antoine | None:
     if kind not in fmt.STATED_KINDS:
         r.error(kp + ("provenance",), f"an entry may state provenance {', '.join(fmt.STATED_KINDS)}, not '{kind}'")
         return None
-    if None in coeffs or None in units or None in limits or form is None:
+    return source, kind
+
+
+def _read_hansen(r: _Reader, item, kp, sources, sphere: bool) -> HansenSet | None:
+    """``properties.hansen`` (a material's δD, δP, δH) or ``properties.hansen_sphere`` (with a radius)."""
+    what = "hansen_sphere" if sphere else "hansen"
+    item = r.mapping(item, kp, fmt.SPHERE_KEYS if sphere else fmt.HANSEN_KEYS, what)
+    if not item:
         return None
-    if problem := antoine_problem(*coeffs, form, pascal_per_unit, units[1] != "K", *limits):
-        r.error(kp, problem[0], problem[1], at_key=True)
+    numbers = []
+    for key in ("delta_d", "delta_p", "delta_h") + (("radius",) if sphere else ()):
+        value = r.number(item, kp + (key,), required=True, what=what)
+        if value is not None and not 0.0 <= value <= fmt.HANSEN_MAX:
+            r.error(kp + (key,), f"{key} {value:g} MPa½ is outside 0 … {fmt.HANSEN_MAX:g} MPa½",
+                    "Hansen parameters are a few to a few tens of MPa½ (water: δH about 42)")
+            value = None
+        if sphere and key == "radius" and value is not None and value <= 0.0:
+            r.error(kp + (key,), "the sphere's radius must be above zero")
+            value = None
+        numbers.append(value)
+    cited = _cited_source(r, item, kp, sources, what)
+    if cited is None:
         return None
-    return Antoine(*coeffs, form, units[0], "°C" if units[1] == "degC" else units[1], limits[0], limits[1],
-                   source, kind, r.text(item, kp + ("note",)))
+    source, kind = cited
+    if None in numbers:
+        return None
+    return HansenSet(*numbers[:3], source, kind, numbers[3] if sphere else None, r.text(item, kp + ("note",)))
 
 
 #: vapor pressures an Antoine equation may give over its stated range (SI, Pa): the
@@ -451,12 +488,8 @@ def load_entry(path: str, text: str, sources: dict, locations: dict) -> tuple[En
     if etype not in fmt.ENTRY_TYPES:
         r.error(("type",), f"unknown type '{etype}'", f"expected one of {', '.join(fmt.ENTRY_TYPES)}")
     smiles = r.text(data, ("smiles",), required=(etype == "substance"))
-    if smiles is not None and (problem := _smiles_problem(smiles)):
+    if smiles is not None and (problem := smiles_error(smiles)):
         r.error(("smiles",), *problem)
-    elif smiles is not None:
-        _, reason = parse_smiles(smiles)
-        if reason:
-            r.error(("smiles",), f"SMILES {_brief(smiles)} does not parse", f"RDKit: {reason}")
     cas = r.text(data, ("cas",))
     if cas is not None and (problem := cas_problem(cas)):
         r.error(("cas",), problem)
@@ -481,16 +514,26 @@ def load_entry(path: str, text: str, sources: dict, locations: dict) -> tuple[En
         r.error(("hazard_source",), f"unknown source '{hazard_source}'",
                 f"did you mean '{close[0]}'?" if close else "add it to entries/sources.yaml")
     catalog = _read_catalog(r, data.get("catalog"), locations)
+    composition = read_composition(r, data)
+    if composition and etype != "mixture":
+        r.error(("composition",), "only a mixture has a composition", "add 'type: mixture' or remove 'composition'",
+                at_key=True)
+    elif composition and smiles is not None:
+        r.error(("smiles",), "a mixture with a composition has no SMILES of its own",
+                "remove 'smiles': the structures are the components'")
     properties = {}
     props = data.get("properties")
     antoine = None
+    hansen_sets: dict[str, HansenSet | None] = {}
     if props is not None:
-        allowed = list(fmt.PROPERTIES) + ["antoine"]
+        allowed = list(fmt.PROPERTIES) + ["antoine", "hansen", "hansen_sphere"]
         props = r.mapping(props, ("properties",), allowed, "properties")
         for pname, item in props.items():
             kp = ("properties", pname)
             if pname == "antoine":
                 antoine = _read_antoine(r, item, kp, sources)
+            elif pname in ("hansen", "hansen_sphere"):
+                hansen_sets[pname] = _read_hansen(r, item, kp, sources, sphere=pname == "hansen_sphere")
             elif pname in fmt.PROPERTIES:
                 value = _read_property(r, pname, item, kp, sources)
                 if value is not None:
@@ -502,8 +545,20 @@ def load_entry(path: str, text: str, sources: dict, locations: dict) -> tuple[En
                   r.text(data, ("notes",)), catalog, frozen_map(_in_format_order(properties)), antoine,
                   frozen_map(lines), declared_formula=formula, declared_molar_mass=molar_mass,
                   hazard_provenance=(Provenance(PROVENANCE_OF_SOURCE[sources[hazard_source].kind],
-                                                source=hazard_source) if hazard_source else None))
+                                                source=hazard_source) if hazard_source else None),
+                  composition=composition, hansen=hansen_sets.get("hansen"),
+                  hansen_sphere=hansen_sets.get("hansen_sphere"))
     return entry, r.problems
+
+
+def smiles_error(smiles: str) -> tuple[str, str] | None:
+    """(message, hint) when ``smiles`` is not one readable structure, else None."""
+    if problem := _smiles_problem(smiles):
+        return problem
+    _, reason = parse_smiles(smiles)
+    if reason:
+        return f"SMILES {_brief(smiles)} does not parse", f"RDKit: {reason}"
+    return None
 
 
 def _smiles_problem(smiles: str) -> tuple[str, str] | None:
@@ -704,7 +759,14 @@ def load_catalog(entries_dir: Path, only: list[Path] | None = None) -> tuple[Cat
         return None, [Diagnostic(root, 1, 1, "error", "entries folder not found")]
     sources, locations, diagnostics = read_bibliography(entries_dir, root)
     files = sorted(Path(p) for p in only) if only else entry_files(entries_dir)
-    entries, more, _ = read_entries(files, sources, locations, root=entries_dir)
+    entries, more, failed = read_entries(files, sources, locations, root=entries_dir)
+    if only:  # the files' neighbours take part in the checks across entries (their own problems are not shown)
+        others = [p for p in entry_files(entries_dir) if p.stem not in entries and p.stem not in failed]
+        neighbours = read_entries(others, sources, locations, root=entries_dir)[0]
+        more += [d for d in composition_problems({**neighbours, **entries}, {p.stem for p in others})
+                 if d.path in {e.path for e in entries.values()}]
+    else:
+        more += composition_problems(entries, failed)
     # sources.yaml and locations.yaml first: their problems cause the entries' unknown-key errors
     diagnostics = sorted(diagnostics + more, key=lambda d: (Path(d.path).name not in SPECIAL_FILES, d.path,
                                                             d.line, d.col, d.message))

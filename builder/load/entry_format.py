@@ -53,6 +53,9 @@ ENTRY_FIELDS: dict[str, FieldSpec] = {
     "notes": FieldSpec("text", "free text shown on the datasheet"),
     "catalog": FieldSpec("catalog", "site-specific facts: code, locations, storage limits, owner"),
     "properties": FieldSpec("properties", "stated property values, each with its source"),
+    "composition": FieldSpec("composition", "a mixture's components: each an entry id ('component') or a "
+                                            "structure ('smiles' and 'name'), with a 'fraction' such as "
+                                            "'40 % w/w', '10-20 % v/v', '0.5 mol/mol' or 'balance'"),
 }
 ENTRY_KEYS = tuple(ENTRY_FIELDS)
 
@@ -85,6 +88,18 @@ ANTOINE_HELP = {
     "source": "a key of entries/sources.yaml", "provenance": "measured, literature or supplier",
     "note": "free text",
 }
+HANSEN_KEYS = ("delta_d", "delta_p", "delta_h", "source", "provenance", "note")
+SPHERE_KEYS = ("delta_d", "delta_p", "delta_h", "radius", "source", "provenance", "note")
+HANSEN_HELP = {
+    "delta_d": "dispersion parameter δD in MPa½ (a number)",
+    "delta_p": "polar parameter δP in MPa½ (a number)",
+    "delta_h": "hydrogen-bonding parameter δH in MPa½ (a number)",
+    "radius": "interaction radius R0 of the solubility sphere in MPa½ (a number)",
+    "source": "a key of entries/sources.yaml", "provenance": "measured, literature or supplier", "note": "free text",
+}
+#: the largest Hansen parameter or sphere radius the loader accepts (MPa½): water's δH, about 42, is the
+#: largest of the common solvents; anything far above is a typing error
+HANSEN_MAX = 60.0
 SOURCE_KEYS = ("title", "kind", "year", "edition", "authors", "publisher", "note")
 LOCATION_KEYS = ("name", "description", "max_store_temperature", "allowed_groups", "max_flammable_liquid_volume")
 #: provenance kinds an entry may state for a value it gives
@@ -101,7 +116,7 @@ MAX_ID_LENGTH = 64
 #: names an entry id or a location key may not take: the site's own pages and folders
 #: (builder/publish/site.py: index.html, cards/all.html, …; a test keeps this list complete)
 #: and the names Windows reserves for devices, so a copied site opens everywhere
-SITE_NAMES = ("index", "forces", "stores", "categories", "trends", "sources", "methods", "build", "all",
+SITE_NAMES = ("index", "forces", "stores", "categories", "trends", "solvency", "sources", "methods", "build", "all",
               "assets", "charts", "cards", "materials", "data", "catalog", "search-index")
 DEVICE_NAMES = ("con", "prn", "aux", "nul") + tuple(f"com{i}" for i in range(10)) + tuple(f"lpt{i}" for i in range(10))
 RESERVED_NAMES = SITE_NAMES + DEVICE_NAMES

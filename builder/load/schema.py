@@ -109,6 +109,8 @@ def _field(spec: fmt.FieldSpec) -> dict:
                "properties": {k: _field(v) for k, v in fmt.CATALOG_FIELDS.items()}}
     elif kind == "properties":
         out = _properties()
+    elif kind == "composition":
+        out = _composition()
     else:
         raise ValueError(f"unknown field kind {kind!r}")
     if kind == "smiles":
@@ -163,9 +165,46 @@ def _antoine() -> dict:
             "description": "Antoine equation with its valid range and source", "properties": props}
 
 
+def _composition() -> dict:
+    from builder.load.composition import BASES
+    fraction = {"anyOf": [{"enum": ["balance"]}, {"type": "string", "pattern": r"^[0-9.]+(\s*(-|–|to)\s*[0-9.]+)?\s*%?\s*("
+                                                 + "|".join(re.escape(b) for b in BASES) + ")$"}],
+                "description": "e.g. '40 % w/w', '10-20 % v/v', '0.5 mol/mol' or 'balance'",
+                "examples": ["40 % w/w", "10-20 % w/w", "0.5 mol/mol", "balance"]}
+    component = {"type": "object", "additionalProperties": False, "required": ["fraction"],
+                 "properties": {"component": dict(_TEXT, description="an entry id of the catalog"),
+                                "smiles": dict(_TEXT, description="an inline structure (with a name)"),
+                                "name": dict(_TEXT, description="the inline component's name"),
+                                "fraction": fraction},
+                 "oneOf": [{"required": ["component"]}, {"required": ["smiles", "name"]}]}
+    return {"type": "array", "minItems": 1, "items": component}
+
+
+def _hansen(sphere: bool) -> dict:
+    keys = fmt.SPHERE_KEYS if sphere else fmt.HANSEN_KEYS
+    props = {}
+    for key in keys:
+        if key in ("source",):
+            props[key] = _source()
+        elif key == "provenance":
+            props[key] = _provenance()
+        elif key == "note":
+            props[key] = dict(_TEXT)
+        else:
+            props[key] = {"type": "number", "minimum": 0, "maximum": fmt.HANSEN_MAX}
+        props[key]["description"] = fmt.HANSEN_HELP[key]
+    required = [k for k in keys if k not in ("provenance", "note")]
+    what = ("a resin's or polymer's Hansen solubility sphere (centre and radius, MPa½)" if sphere
+            else "stated Hansen solubility parameters (MPa½)")
+    return {"type": "object", "additionalProperties": False, "required": required, "description": what,
+            "properties": props}
+
+
 def _properties() -> dict:
     props = {name: _property(name, spec) for name, spec in fmt.PROPERTIES.items()}
     props["antoine"] = _antoine()
+    props["hansen"] = _hansen(False)
+    props["hansen_sphere"] = _hansen(True)
     return {"type": "object", "additionalProperties": False, "properties": props}
 
 

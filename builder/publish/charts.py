@@ -200,3 +200,54 @@ def series_svg(title: str, points) -> str:
     """Boiling point along a homologous series: ``points`` are (label, carbons, boiling_point_K)."""
     fig, _ = series_figure(title, points)
     return _svg(fig)
+
+
+def txy_svg(first: str, second: str, xs, bubble_K, dew_K, model: str) -> str:
+    """The T–x–y diagram of a binary mixture at 101.325 kPa: bubble and dew temperatures against the
+    mole fraction of ``first`` (``xs``), as an SVG with its title as the text alternative."""
+    fig, ax = plt.subplots(figsize=(5.0, 3.4))
+    ax.plot(xs, [celsius(t) for t in bubble_K], color="#0072B2", linewidth=1.6, label="bubble point (liquid)")
+    ax.plot(xs, [celsius(t) for t in dew_K], color="#D55E00", linewidth=1.6, linestyle="--",
+            label="dew point (vapor)")
+    ax.set_xlim(0.0, 1.0)
+    ax.set_xlabel(visible(f"Mole fraction of {first} (the rest {second})"), parse_math=False)
+    ax.set_ylabel("Temperature at 101.325 kPa (°C)")
+    ax.set_title(visible(f"Boiling of {first} + {second} ({model})"), fontsize=9, parse_math=False)
+    ax.grid(True, color="#dddddd", linewidth=0.6)
+    ax.legend(frameon=False, fontsize=7)
+    return _svg(fig)
+
+
+def solvency_map_svg(solvents, spheres) -> str:
+    """The catalog's liquids in the δP–δH plane (marker size by δD, shape and colour by dominant
+    force) with each resin's solubility sphere as a circle of its radius R0 around its centre (the
+    sphere's cut at the centre's δD); ``solvents``: (Derived, (δD, δP, δH)); ``spheres``: (Derived, sphere).
+    Names are placed where there is room (``place_labels``); the page's table lists every point."""
+    fig, ax = plt.subplots(figsize=(6.4, 4.8))
+    seen = set()
+    xs, ys, items = [0.0], [0.0], []
+    for d, (dd, dp, dh) in solvents:
+        force = d.label("dominant_force").code if d.label("dominant_force") else None
+        marker, colour, name = FORCE_STYLE.get(force, FORCE_STYLE[None])
+        ax.scatter([dp], [dh], marker=marker, s=max(8.0, (dd - 12.0) * 10.0), color=colour, alpha=0.85,
+                   label=None if force in seen else name, zorder=3)
+        seen.add(force)
+        xs.append(dp)
+        ys.append(dh)
+        items.append((d.entry.name, dp, dh))
+    for d, sphere in spheres:
+        ax.add_patch(plt.Circle((sphere.delta_p, sphere.delta_h), sphere.radius, fill=False, color="#555555",
+                                linestyle="--", linewidth=1.0))
+        xs += [sphere.delta_p + sphere.radius, sphere.delta_p - sphere.radius]
+        ys += [sphere.delta_h + sphere.radius, sphere.delta_h - sphere.radius]
+        ax.text(sphere.delta_p, sphere.delta_h + sphere.radius, visible(f"{d.entry.name} (sphere)"), fontsize=7,
+                ha="center", va="bottom", color="#555555", parse_math=False)
+    ax.set_xlim(max(min(xs) - 1.0, -0.5 if min(xs) >= 0 else min(xs) - 1.0), max(xs) + 2.0)
+    ax.set_ylim(max(min(ys) - 1.0, -0.5 if min(ys) >= 0 else min(ys) - 1.0), max(ys) + 2.0)
+    ax.set_xlabel("Polar parameter δP (MPa½)")
+    ax.set_ylabel("Hydrogen-bonding parameter δH (MPa½)")
+    ax.grid(True, color="#dddddd", linewidth=0.6)
+    if seen:
+        ax.legend(frameon=False, fontsize=7, loc="upper left", bbox_to_anchor=(1.0, 1.0))
+    place_labels(fig, ax, items, fontsize=6)
+    return _svg(fig)

@@ -13,14 +13,15 @@ from builder.chem.forces import n_alkane_boiling_point
 from builder.chem.identity import depict_svg, formula_counts
 from builder.core.cache import Cache, code_version, key_of, settings_key
 from builder.core.model import Catalog
-from builder.derive.catalog import derive_key
+from builder.derive.catalog import entry_keys as derive_keys
 from builder.derive.entry import Derived
 from builder.derive.forces import FORCE_WORDS
+from builder.derive.solvency import params_of, solvency_relations, solvent_of
 from builder.derive.links import Link, cross_links, homologous_series
 from builder.publish import charts, exports, svgchart
 from builder.publish.revision import Revision
 from builder.publish.stores import store_sheet
-from builder.publish.templating import FLAMMABLE_CATEGORIES, TEMPLATES, Writer, environment, revision_text
+from builder.publish.templating import FLAMMABLE_CATEGORIES, TEMPLATES, Writer, environment, revision_text, txy_path
 from builder.publish.textsafe import short_path
 
 
@@ -113,12 +114,12 @@ def render_site(catalog: Catalog, derived: tuple[Derived, ...], out: Path, diagn
         f"{revision_text(revision, entry)} · {stamp} · cohesion {env.globals['version']}")
     writer = Writer(env, out, previous, previous_keys)
     base = key_of("site", code_version(), settings_key(), stamp)
-    entry_keys = {d.entry.id: derive_key(d.entry, {k: catalog.locations[k] for k in d.entry.catalog.locations})
-                  for d in derived}
+    entry_keys = derive_keys(catalog)
     for asset in sorted((TEMPLATES / "assets").iterdir()):
         if asset.is_file():
             writer.copy(f"assets/{asset.name}", asset)
     links: dict[str, tuple[Link, ...]] = cross_links(derived)
+    relations = solvency_relations(derived)
     by_source, by_method = _uses(catalog, derived)
     by_id = {d.entry.id: d for d in derived}
     # what every catalog-wide page is made from: each entry as derived, its links, the stores and sources
@@ -143,6 +144,11 @@ def render_site(catalog: Catalog, derived: tuple[Derived, ...], out: Path, diagn
     writer.page("stores.html", "by_store.html", key=whole, **common)
     writer.page("categories.html", "by_category.html", key=whole, **common)
     writer.page("trends.html", "trends.html", key=whole, series_charts=series_charts, **common)
+    solvents = solvency_table(derived)
+    writer.made("charts/solvency-map.svg", key_of(whole, "solvency-map"),
+                lambda: charts.solvency_map_svg(solvents, spheres(derived)))
+    writer.page("solvency.html", "solvency.html", key=whole, solvents=solvents, spheres=spheres(derived),
+                relations=relations, **common)
     writer.page("sources.html", "sources.html", key=whole, sources_used=by_source, **common)
     writer.page("methods.html", "methods.html", key=whole, methods_used=by_method, **common)
     writer.page("build.html", "build.html", key=key_of(whole, repr(revision)), diagnostics=diagnostics,
@@ -159,7 +165,7 @@ def render_site(catalog: Catalog, derived: tuple[Derived, ...], out: Path, diagn
         if not writer.reuse(short_path(f"stores/{key}.html"), sheet_key):
             writer.page(f"stores/{key}.html", "store_sheet.html", stamp=stamp, **store_sheet(catalog, derived, key),
                         **common)
-    job = _EntryFiles(catalog, by_id, links, parts, entry_keys, base, revision, common)
+    job = _EntryFiles(catalog, by_id, links, parts, entry_keys, base, revision, common, relations)
     chunks = [list(range(i, min(i + _CHUNK, len(derived)))) for i in range(0, len(derived), _CHUNK)]
     done = 0
     for written, made_keys, reused in _run_chunks(job, writer, chunks, jobs):
@@ -186,6 +192,21 @@ def _vapor_chart(d: Derived) -> str:
                                     store.value if store else None)
 
 
+def solvency_table(derived) -> list:
+    """(Derived, (δD, δP, δH)) of every catalog liquid with Hansen parameters, by id."""
+    return [(d, params_of(d)) for d in derived if solvent_of(d) is not None]
+
+
+def spheres(derived) -> list:
+    """(Derived, sphere) of every entry with a stated solubility sphere."""
+    return [(d, d.entry.hansen_sphere) for d in derived if d.entry.hansen_sphere is not None]
+
+
+def _txy_chart(d: Derived) -> str:
+    rows, (xs, bubble, dew) = d.mixture.rows, d.mixture.txy
+    return charts.txy_svg(rows[0].name, rows[1].name, xs, bubble, dew, d.mixture.activity_model.split(" (")[0])
+
+
 #: entries per task when datasheets are written by several processes
 _CHUNK = 16
 #: (job, Jinja environment) of the running build, for worker processes started by fork (they inherit it)
@@ -195,8 +216,9 @@ _FORKED: tuple | None = None
 class _EntryFiles:
     """Everything needed to write one entry's files: drawing, vapor chart, JSON, datasheet."""
 
-    def __init__(self, catalog, by_id, links, parts, entry_keys, base, revision, common):
+    def __init__(self, catalog, by_id, links, parts, entry_keys, base, revision, common, relations):
         self.catalog, self.by_id, self.links, self.parts = catalog, by_id, links, parts
+        self.relations = relations
         self.entry_keys, self.base, self.revision, self.common = entry_keys, base, revision, common
         self.derived = common["derived"]
 
@@ -210,17 +232,25 @@ class _EntryFiles:
                         lambda: depict_svg(smiles, highlight=tuple(sorted({i for a in d.hazard_alerts for i in a.atoms}))))
         if d.curve:
             writer.made(f"materials/{eid}-vapor.svg", key_of(base, "vapor", own), lambda: _vapor_chart(d))
+        if d.mixture is not None and d.mixture.txy is not None:
+            writer.made(txy_path(eid), key_of(base, "txy", own), lambda: _txy_chart(d))
         mine = self.links.get(eid, ())
         part_key, part = self.parts[eid]
         writer.made(f"data/{eid}.json", part_key, lambda: exports.entry_file_json_from_part(part))
         used = sorted({v.provenance.source for v in d.values.values() if v.provenance.source}
                       | ({d.entry.antoine.source} if d.entry.antoine else set()))
         sources = [catalog.sources[k] for k in used if k in catalog.sources]
+        substitutes = self.relations.substitutes.get(eid, ())
+        matches = self.relations.matches.get(eid, ())
         sheet_key = key_of(base, "datasheet", own, revision_text(self.revision, d.entry), repr(mine),
                            repr([(link.target, by_id[link.target].entry.name) for link in mine if link.target in by_id]),
-                           repr([catalog.locations.get(k) for k in d.entry.catalog.locations]), repr(sources))
+                           repr([catalog.locations.get(k) for k in d.entry.catalog.locations]), repr(sources),
+                           repr(substitutes), repr(matches),
+                           repr(sorted({c for s in substitutes for c in ([s.id] if s.id else [p for p, _ in s.blend])}
+                                       | {m.id for m in matches})))
         if not writer.reuse(short_path(f"materials/{eid}.html"), sheet_key):
             writer.page(f"materials/{eid}.html", "datasheet.html", d=d, links=mine, sources=sources,
+                        substitutes=substitutes, sphere_matches=matches,
                         json_ld=exports.json_ld(d), **self.common)
 
 

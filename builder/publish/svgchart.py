@@ -25,6 +25,7 @@ SEGMENT_STYLE = {
     "antoine": (None, 1.8, "#0072B2", "Antoine equation (valid range)"),
     "antoine-outside": ("1.5 3", 1.2, "#0072B2", "Antoine equation outside its range"),
     "estimated": ("6 3", 1.4, "#D55E00", "estimated from the boiling point"),
+    "mixture": (None, 1.8, "#009E73", "mixture: bubble pressure from its components"),
 }
 
 

@@ -24,6 +24,7 @@ from builder.core.quantities import STATED_PROPERTIES as PROPERTIES
 from builder.core.units import format_value
 from builder.core.values import KINDS, Label
 from builder.derive.fire import NOTES_DISCLAIMER
+from builder.chem.solvency import CAUTION as SOLVENCY_CAUTION
 from builder.derive.forces import FORCE_WORDS
 from builder.publish.stores import store_compatibility
 from builder.publish.textsafe import short_path, visible
@@ -63,6 +64,34 @@ def _stored_validation(name: str) -> dict | None:
     return bands_in_numeric_order(data) if "bands" in data else data
 
 
+#: how the substitution ranking's criteria read on a page
+_CRITERIA = {"flammable_category": "flammable category", "flash_point_K": "flash point",
+             "volatility_band": "volatility", "health_h_codes": "health H-codes", "alert_ids": "alerts"}
+
+
+def _criterion_value(criterion: str, value) -> str:
+    if value is None or value == () or value == frozenset():
+        return "none"
+    if criterion == "flash_point_K":
+        return temperature_text(value)
+    if criterion == "flammable_category":
+        return str(value)
+    if isinstance(value, (set, frozenset, tuple, list)):
+        return " ".join(sorted(value))
+    return str(value)
+
+
+def comparison_text(comparisons) -> str:
+    """"flash point 22 °C (target −4 °C); ..." for the better/worse lists of a substitute."""
+    return "; ".join(f"{_CRITERIA.get(c.criterion, c.criterion)} {_criterion_value(c.criterion, c.candidate)} "
+                     f"(this material: {_criterion_value(c.criterion, c.target)})" for c in comparisons)
+
+
+def txy_path(entry_id: str) -> str:
+    """Where a binary mixture's T–x–y diagram is written (a folder no entry file can reach)."""
+    return f"charts/mixture-{entry_id}-txy.svg"
+
+
 def environment(templates: Path = TEMPLATES) -> jinja2.Environment:
     if not (templates / "base.html").exists():
         raise FileNotFoundError(f"templates not found in {templates}: install the project with 'pip install -e .'")
@@ -77,7 +106,8 @@ def environment(templates: Path = TEMPLATES) -> jinja2.Environment:
     )
     env.filters["formula"] = formula_markup
     env.globals.update(use_list=use_list, FLAMMABLE_CATEGORIES=FLAMMABLE_CATEGORIES, KIND_MARKS=KIND_MARKS, KINDS=KINDS, CAUTION=CAUTION, METHODS=METHODS,
-                       version=__version__, property_label=property_label, condition_text=condition_text,
+                       version=__version__, property_label=property_label, txy_path=txy_path,
+                       comparison_text=comparison_text, SOLVENCY_CAUTION=SOLVENCY_CAUTION, condition_text=condition_text,
                        temperature_text=temperature_text, FORCE_WORDS=FORCE_WORDS, first_sentence=first_sentence,
                        NOTES_DISCLAIMER=NOTES_DISCLAIMER,
                        table_rows=table_rows, card_rows=card_rows, plain_name=plain_name,

@@ -14,7 +14,7 @@ from builder.core.quantities import DERIVED_QUANTITIES
 from builder.derive.entry import Derived
 
 #: datasheet tables → the registry sections they show, in order
-SHEET_TABLES = {"boiling": ("boiling",), "fire": ("vapor", "flash")}
+SHEET_TABLES = {"boiling": ("boiling",), "fire": ("vapor", "flash"), "solvency": ("solvency",)}
 
 
 def _present(d: Derived, q):

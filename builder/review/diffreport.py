@@ -108,6 +108,11 @@ def snapshot(d: Derived, links=()) -> dict[str, str]:
     out = {"name": e.name, "cas": e.cas or "", "smiles": e.smiles or "",
            "formula": d.identity.formula if d.identity else "", "inchikey": d.identity.inchikey if d.identity else "",
            "hazard_statements": ", ".join(e.hazard_statements), "locations": ", ".join(e.catalog.locations)}
+    if e.composition:
+        out["composition"] = "; ".join(f"{c.entry_id or c.smiles} {c.fraction.text}" for c in e.composition)
+    if getattr(d, "mixture", None) is not None:
+        out["activity_model"] = d.mixture.activity_model + (f" ({d.mixture.activity_note})"
+                                                           if d.mixture.activity_note else "")
     for name, value in e.properties.items():
         cond = ", ".join(f"{k} {celsius_text(v, 1)}" if k == "at" else f"{k} {v / 1000:g} kPa"
                          for k, v in value.conditions)

@@ -215,6 +215,7 @@ def _cited_sources(catalog: Catalog) -> set[str]:
         cited |= {v.provenance.source for v in e.properties.values() if v.provenance.source}
         if e.antoine is not None:
             cited.add(e.antoine.source)
+        cited |= {h.source for h in (e.hansen, e.hansen_sphere) if h is not None}
         if e.hazard_provenance is not None:
             cited.add(e.hazard_provenance.source)
         # a key named in free text (e.g. "hazard statements from source clp-annex-vi") counts as cited

@@ -204,6 +204,44 @@ def scaffold_text(name: str, smiles: str, cas: str | None = None, locations: lis
     return text + _PLACEHOLDERS
 
 
+def _location_keys(entries_dir: Path) -> list[str]:
+    loc_file = entries_dir / "locations.yaml"
+    if loc_file.exists():
+        doc, _ = read_yaml(str(loc_file), loc_file.read_text(encoding="utf-8"))
+        if doc is not None and isinstance(doc.data, dict):
+            return sorted(map(str, doc.data))
+    return []
+
+
+def mixture_scaffold_text(name: str, components: list[tuple[str, str, bool]], locations: list[str] | None = None) -> str:
+    """The text of a new mixture entry: ``components`` are (entry id or SMILES, fraction text, is an entry id)."""
+    stores = ", ".join(locations or []) or "none defined yet"
+    parts = [
+        MODELINE,
+        f"# {name}: started with `cohesion new --mix`. Check the fractions against the supplier's sheet",
+        "# (ranges like '10-20 % w/w' are fine), then run `cohesion check` on this file.",
+        f"name: {_quote(name)}                      # the name the site uses",
+        "type: mixture",
+        "composition:                       # each: an entry id ('component') or 'smiles' with a 'name'",
+    ]
+    for key, fraction, is_entry in components:
+        if is_entry:
+            parts.append(f"  - component: {key}")
+        else:
+            parts += [f"  - smiles: {_quote(key)}", f"    name: {_quote(key)}             # a readable name"]
+        parts.append(f"    fraction: {fraction}")
+    parts += [
+        "# hazard_statements: [H225]        # GHS H-codes from the supplier's safety data sheet",
+        "# properties:                      # stated values win over the ones derived from the components",
+        "#   flash_point: {value: 12 °C, source: KEY, method: closed cup}",
+        "# catalog:                         # site facts",
+        "#   code: XX-000",
+        f"#   locations: [KEY]               # keys of locations.yaml: {stores}",
+        "#   container: 25 L can",
+    ]
+    return "\n".join(_align(line) for line in parts) + "\n"
+
+
 def _append_sources(sources_file: Path, keys: list[str], version: str) -> list[str]:
     """Append the bibliography items ``keys`` lacks to ``sources_file``; returns the keys added."""
     text = sources_file.read_text(encoding="utf-8") if sources_file.exists() else ""
@@ -223,15 +261,50 @@ def _append_sources(sources_file: Path, keys: list[str], version: str) -> list[s
     return added
 
 
-def new_entry(entries_dir: Path, name: str, smiles: str, cas: str | None = None,
-              from_reference: bool = False) -> tuple[Path, list[str]]:
-    """Write ``entries_dir/<id>.yaml``; returns its path and the source keys appended to sources.yaml."""
+def _mixture_components(entries_dir: Path, items: list[str]) -> list[tuple[str, str, bool]]:
+    """``ID=FRACTION`` or ``SMILES=FRACTION`` items, checked like a composition in a file."""
+    from builder.load.composition import FractionProblem, parse_fraction, sum_problem
+
+    out, fractions = [], []
+    for item in items:
+        key, sep, text = item.rpartition("=")
+        if not sep or not key.strip():
+            raise ScaffoldError(f"--mix {item!r}: expected ID=FRACTION or SMILES=FRACTION, e.g. 'ethanol=40 % w/w'",
+                                code=2)
+        key = key.strip()
+        try:
+            fractions.append(parse_fraction(text.strip()))
+        except FractionProblem as exc:
+            raise ScaffoldError(f"--mix {item!r}: {exc}" + (f" ({exc.hint})" if exc.hint else "")) from exc
+        is_entry = (entries_dir / f"{key}.yaml").is_file()
+        if not is_entry and parse_smiles(key)[1]:
+            raise ScaffoldError(f"--mix {item!r}: '{key}' is neither an entry of {entries_dir} nor a SMILES")
+        out.append((key, text.strip(), is_entry))
+    if problem := sum_problem(fractions):
+        raise ScaffoldError(f"--mix: {problem}")
+    return out
+
+
+def new_entry(entries_dir: Path, name: str, smiles: str | None, cas: str | None = None,
+              from_reference: bool = False, mix: list[str] | None = None) -> tuple[Path, list[str]]:
+    """Write ``entries_dir/<id>.yaml``; returns its path and the source keys appended to sources.yaml.
+    ``mix``: the components of a mixture (``ID=FRACTION`` or ``SMILES=FRACTION``) instead of a SMILES."""
     entries_dir = Path(entries_dir)
     entry_id = slugify(name)
     if not entry_id:
         raise ScaffoldError(f"cannot make an entry id from the name {name!r}: use letters or digits")
     if not entries_dir.is_dir():
         raise ScaffoldError(f"entries folder {entries_dir} not found", code=2)
+    if mix:
+        components = _mixture_components(entries_dir, mix)
+        path = entries_dir / f"{entry_id}.yaml"
+        if path.exists():
+            raise ScaffoldError(f"{path} already exists; not overwriting it")
+        with open(path, "x", encoding="utf-8") as handle:
+            handle.write(mixture_scaffold_text(name, components, _location_keys(entries_dir)))
+        return path, []
+    if smiles is None:
+        raise ScaffoldError("give --smiles for a substance or --mix components for a mixture", code=2)
     _, reason = parse_smiles(smiles)
     if reason:
         raise ScaffoldError(f"SMILES {smiles!r} does not parse: {reason}")
@@ -245,13 +318,7 @@ def new_entry(entries_dir: Path, name: str, smiles: str, cas: str | None = None,
         if cas is None:
             raise ScaffoldError("--from-reference looks values up by CAS number: give --cas", code=2)
         reference = reference_values(cas)
-    locations: list[str] = []
-    loc_file = entries_dir / "locations.yaml"
-    if loc_file.exists():
-        doc, _ = read_yaml(str(loc_file), loc_file.read_text(encoding="utf-8"))
-        if doc is not None and isinstance(doc.data, dict):
-            locations = sorted(map(str, doc.data))
-    text = scaffold_text(name, smiles, cas, locations, reference)
+    text = scaffold_text(name, smiles, cas, _location_keys(entries_dir), reference)
     added = _append_sources(entries_dir / "sources.yaml", reference.sources, reference.version) if reference else []
     with open(path, "x", encoding="utf-8") as handle:  # "x": never overwrite, even in a race
         handle.write(text)

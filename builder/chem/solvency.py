@@ -1,0 +1,267 @@
+"""Solvency distance, solubility spheres, blends and safer substitutes (Hansen parameters).
+
+Contents
+--------
+- ``hansen_distance(a, b)``: Ra = √(4ΔδD² + ΔδP² + ΔδH²) [MPa^½].
+- ``relative_energy_difference(ra, r0)``, ``red_class(red)``: RED = Ra/R0 and its class.
+- ``blend_parameters(parts)``: volume-fraction average of the parameters.
+- ``optimal_blend_fraction(a, b, target)``: the volume fraction of ``a`` in an a+b blend that
+  brings the blend closest to ``target`` (analytical optimum, clipped to [0, 1]).
+- ``Solvent``, ``Candidate``, ``Comparison``, ``rank_substitutes(target, candidates, max_ra)``:
+  catalog liquids (and, when asked, two-solvent blends) within ``max_ra`` of a target, ranked
+  by safety, each with what it is better and worse at than the target.
+
+Parameters are plain ``(delta_d, delta_p, delta_h)`` triples in MPa^½.
+
+Conventions
+-----------
+- The factor 4 on the dispersion term and RED = Ra/R0 (inside a polymer's solubility sphere
+  when RED < 1) are Hansen's [1]_.
+- Borderline: 1 ≤ RED ≤ ``BORDERLINE_RED`` = 1.1.  Hansen treats RED near 1 as the uncertain
+  edge of the sphere (spheres are fitted to good/bad solvent tests); the width 0.1 is our
+  choice, not a published criterion.
+- Blend parameters are volume-fraction averages, δX,blend = Σ φi δX,i (Hansen [1]_, common
+  practice), with no volume change on mixing.
+
+The quadratic optimum: with w = (4, 1, 1), a blend φ·a + (1 − φ)·b has
+Ra²(φ) = Σ w_k (φ(a_k − b_k) + b_k − t_k)², whose minimum is at
+φ* = Σ w_k (a_k − b_k)(t_k − b_k) / Σ w_k (a_k − b_k)², clipped to [0, 1].
+
+Safety ordering (``safety_key``, lexicographic, safest first):
+
+1. GHS flammable-liquid category: not classified, then 4, 3, 2, 1 (GHS Rev. 10 ch. 2.6);
+2. number of declared health hazard statements (H300-H373);
+3. volatility band: low, medium, high; unknown ranks as high (conservative);
+4. number of structural hazard alerts;
+5. flash point, higher first; unknown after every known value;
+6. Ra to the target, smaller first; then the id.
+
+A blend takes the less safe value of its two parts for every criterion (worse category,
+lower flash point, more volatile band, the union of alerts and hazard statements): blends
+can flash below both parts (minimum-flash-point mixtures), so even this is not a bound.
+
+References
+----------
+.. [1] C. M. Hansen, Hansen Solubility Parameters: A User's Handbook, 2nd ed., CRC Press,
+   Boca Raton (2007), ch. 1 (Ra, RED, volume-averaged blends).
+.. [2] United Nations, GHS Rev. 10 (2023), ch. 2.6 (flammable liquid categories).
+"""
+from __future__ import annotations
+
+import math
+from collections.abc import Sequence
+from dataclasses import dataclass, field
+from itertools import combinations
+
+Params = Sequence[float]
+
+WEIGHTS = (4.0, 1.0, 1.0)
+BORDERLINE_RED = 1.1
+VOLATILITY_ORDER = {"low": 0, "medium": 1, "high": 2}
+CAUTION = ("Solvency is one criterion: compatibility with the process and materials, toxicity, "
+           "regulations and a trial decide whether a substitute is suitable.")
+
+
+def hansen_distance(a: Params, b: Params) -> float:
+    """Hansen distance Ra [MPa^½] between two parameter triples (δD, δP, δH).
+
+    Ra² = 4(δD,a − δD,b)² + (δP,a − δP,b)² + (δH,a − δH,b)² (Hansen 2007).
+
+    >>> hansen_distance((18.0, 1.4, 2.0), (15.8, 8.8, 19.4))   # toluene to ethanol: √(19.36 + 54.76 + 302.76)
+    19.41...
+    """
+    return math.sqrt(sum(w * (x - y) ** 2 for w, x, y in zip(WEIGHTS, a, b, strict=True)))
+
+
+def relative_energy_difference(ra: float, r0: float) -> float:
+    """RED = Ra / R0 for a sphere of radius ``r0`` [MPa^½].
+
+    >>> relative_energy_difference(5.0, 10.0)
+    0.5
+    """
+    if r0 <= 0:
+        raise ValueError("the sphere radius must be positive")
+    return ra / r0
+
+
+def red_class(red: float) -> str:
+    """'inside' (RED < 1), 'borderline' (1 ≤ RED ≤ 1.1) or 'outside' (see the module docstring).
+
+    >>> [red_class(x) for x in (0.99, 1.0, 1.1, 1.2)]
+    ['inside', 'borderline', 'borderline', 'outside']
+    """
+    if red < 1.0:
+        return "inside"
+    return "borderline" if red <= BORDERLINE_RED else "outside"
+
+
+def blend_parameters(parts: Sequence[tuple[Params, float]]) -> tuple[float, float, float]:
+    """Volume-fraction average of the parameters of ``parts`` = [(params, φ), ...].
+
+    Fractions are normalised to sum to one.
+
+    >>> blend_parameters([((18.0, 1.4, 2.0), 0.5), ((15.8, 8.8, 19.4), 0.5)])
+    (16.9, 5.1, 10.7)
+    """
+    total = sum(phi for _, phi in parts)
+    if total <= 0:
+        raise ValueError("volume fractions must add up to more than zero")
+    return tuple(round(sum(p[k] * phi for p, phi in parts) / total, 10) for k in range(3))
+
+
+def optimal_blend_fraction(a: Params, b: Params, target: Params) -> tuple[float, float]:
+    """Volume fraction φ of ``a`` in an a + b blend minimising Ra to ``target``, and that Ra.
+
+    The analytical minimum of the quadratic Ra²(φ) (module docstring), clipped to [0, 1];
+    when a and b have equal parameters, φ = 1.
+
+    >>> phi, ra = optimal_blend_fraction((18.0, 1.4, 2.0), (15.8, 8.8, 19.4), (16.9, 5.1, 10.7))
+    >>> round(phi, 6), round(ra, 6)
+    (0.5, 0.0)
+    """
+    diff = [x - y for x, y in zip(a, b, strict=True)]
+    denominator = sum(w * d * d for w, d in zip(WEIGHTS, diff))
+    if denominator == 0:
+        phi = 1.0
+    else:
+        numerator = sum(w * d * (t - y) for w, d, t, y in zip(WEIGHTS, diff, target, b))
+        phi = min(max(numerator / denominator, 0.0), 1.0)
+    return phi, hansen_distance(blend_parameters([(a, phi), (b, 1.0 - phi)]), target)
+
+
+@dataclass(frozen=True)
+class Solvent:
+    """A catalog liquid as the ranking sees it.
+
+    ``flammable_category`` is the GHS ch. 2.6 category (1-4) or None when not classified as a
+    flammable liquid; ``flash_point_K`` None when unknown; ``volatility_band`` 'low', 'medium',
+    'high' or None (unknown); ``health_h_codes`` the declared health hazard statements.
+    """
+
+    id: str
+    hansen: tuple[float, float, float]
+    flash_point_K: float | None = None
+    flammable_category: int | None = None
+    volatility_band: str | None = None
+    alert_ids: frozenset[str] = frozenset()
+    health_h_codes: frozenset[str] = frozenset()
+
+
+@dataclass(frozen=True)
+class Comparison:
+    """One criterion on which a candidate differs from the target: the two values."""
+
+    criterion: str
+    candidate: object
+    target: object
+
+
+@dataclass(frozen=True)
+class Candidate:
+    """A substitute: a catalog liquid (``blend`` empty) or a blend [(id, volume fraction), ...]."""
+
+    id: str | None
+    blend: tuple[tuple[str, float], ...]
+    hansen: tuple[float, float, float]
+    ra: float
+    better: tuple[Comparison, ...] = field(default=())
+    worse: tuple[Comparison, ...] = field(default=())
+
+
+def _flam_rank(category: int | None) -> int:
+    return 0 if category is None else 5 - category
+
+
+def _vol_rank(band: str | None) -> int:
+    return VOLATILITY_ORDER.get(band, 2) if band is not None else 2
+
+
+def safety_key(s: Solvent, ra: float) -> tuple:
+    """The sort key of the safety ordering (module docstring), safest first."""
+    flash = -s.flash_point_K if s.flash_point_K is not None else math.inf
+    return (_flam_rank(s.flammable_category), len(s.health_h_codes), _vol_rank(s.volatility_band),
+            len(s.alert_ids), flash, round(ra, 9), s.id)
+
+
+def compare(candidate: Solvent, target: Solvent) -> tuple[tuple[Comparison, ...], tuple[Comparison, ...]]:
+    """What ``candidate`` is better and worse at than ``target``, criterion by criterion."""
+    better: list[Comparison] = []
+    worse: list[Comparison] = []
+
+    def note(criterion: str, cand_rank: float, targ_rank: float, cand_value: object, targ_value: object) -> None:
+        if cand_rank < targ_rank:
+            better.append(Comparison(criterion, cand_value, targ_value))
+        elif cand_rank > targ_rank:
+            worse.append(Comparison(criterion, cand_value, targ_value))
+
+    note("flammable_category", _flam_rank(candidate.flammable_category), _flam_rank(target.flammable_category),
+         candidate.flammable_category, target.flammable_category)
+    if candidate.flash_point_K is not None and target.flash_point_K is not None:
+        note("flash_point_K", -candidate.flash_point_K, -target.flash_point_K,
+             candidate.flash_point_K, target.flash_point_K)
+    note("volatility_band", _vol_rank(candidate.volatility_band), _vol_rank(target.volatility_band),
+         candidate.volatility_band, target.volatility_band)
+    for criterion, cand_set, targ_set in (("health_h_codes", candidate.health_h_codes, target.health_h_codes),
+                                           ("alert_ids", candidate.alert_ids, target.alert_ids)):
+        if targ_set - cand_set:
+            better.append(Comparison(criterion, (), tuple(sorted(targ_set - cand_set))))
+        if cand_set - targ_set:
+            worse.append(Comparison(criterion, tuple(sorted(cand_set - targ_set)), ()))
+    return tuple(better), tuple(worse)
+
+
+def _blend_record(a: Solvent, b: Solvent, phi: float) -> Solvent:
+    """The blend as the ranking sees it: the less safe part on every criterion."""
+    flashes = [f for f in (a.flash_point_K, b.flash_point_K) if f is not None]
+    cats = [c for c in (a.flammable_category, b.flammable_category) if c is not None]
+    bands = [a.volatility_band, b.volatility_band]
+    band = None if None in bands else max(bands, key=_vol_rank)
+    return Solvent(
+        id=f"{a.id}+{b.id}",
+        hansen=blend_parameters([(a.hansen, phi), (b.hansen, 1.0 - phi)]),
+        flash_point_K=min(flashes) if len(flashes) == 2 else None,
+        flammable_category=min(cats) if cats else None,
+        volatility_band=band,
+        alert_ids=a.alert_ids | b.alert_ids,
+        health_h_codes=a.health_h_codes | b.health_h_codes,
+    )
+
+
+def rank_substitutes(target: Solvent, candidates: Sequence[Solvent], max_ra: float,
+                     blends: bool = False, min_fraction: float = 0.05) -> list[Candidate]:
+    """Candidates within ``max_ra`` [MPa^½] of ``target``, safest first (``safety_key``).
+
+    ``target`` itself (same id) is skipped.  With ``blends``, every pair of candidates is
+    blended at its optimal volume fraction (``optimal_blend_fraction``); a blend is listed when
+    each part is at least ``min_fraction`` of it and it comes closer to the target than either
+    part alone.  Each candidate carries what it is better and worse at than the target.
+
+    >>> tol = Solvent("toluene", (18.0, 1.4, 2.0), 277.0, 2, "medium", health_h_codes=frozenset({"H304", "H361d"}))
+    >>> xyl = Solvent("xylene", (17.8, 1.0, 3.1), 300.0, 3, "medium", health_h_codes=frozenset({"H304"}))
+    >>> [c.id for c in rank_substitutes(tol, [tol, xyl], max_ra=4.0)]
+    ['xylene']
+    """
+    pool = [c for c in candidates if c.id != target.id]
+    scored: list[tuple[tuple, Candidate]] = []
+
+    def add(record: Solvent, blend: tuple[tuple[str, float], ...]) -> None:
+        ra = hansen_distance(record.hansen, target.hansen)
+        if ra > max_ra:
+            return
+        better, worse = compare(record, target)
+        cand = Candidate(None if blend else record.id, blend, tuple(record.hansen), round(ra, 3), better, worse)
+        scored.append((safety_key(record, ra), cand))
+
+    for c in pool:
+        add(c, ())
+    if blends:
+        for a, b in combinations(sorted(pool, key=lambda s: s.id), 2):
+            phi, ra = optimal_blend_fraction(a.hansen, b.hansen, target.hansen)
+            if min(phi, 1.0 - phi) < min_fraction:
+                continue
+            if ra >= min(hansen_distance(a.hansen, target.hansen), hansen_distance(b.hansen, target.hansen)):
+                continue
+            phi = round(phi, 3)
+            add(_blend_record(a, b, phi), ((a.id, phi), (b.id, round(1.0 - phi, 3))))
+    scored.sort(key=lambda item: item[0])
+    return [cand for _, cand in scored]

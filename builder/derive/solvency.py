@@ -1,0 +1,192 @@
+"""Hansen solubility parameters on a datasheet, and the catalog-wide solvency relations.
+
+Per entry (``hansen_values``): δD, δP, δH (MPa½) stated in the entry (``properties.hansen``)
+or estimated from the structure (``builder.chem.hansen``), the shares of the cohesive energy
+they imply, and the liquid density and molar volume where none is stated
+(``builder.chem.liquid_density``). A mixture gets the volume-fraction average of its
+components' parameters (``blend_values``).
+
+Across entries (``solvency_relations``): for each liquid, the catalog liquids and two-solvent
+blends of similar solvency ranked by safety (``builder.chem.solvency.rank_substitutes``), and
+for each resin or polymer with a stated solubility sphere, every catalog liquid with its
+relative energy difference RED = Ra/R0.
+"""
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+from builder.chem import solvency
+from builder.chem.hansen import COMPONENTS, cohesive_energy_split, estimate_hansen
+from builder.chem.liquid_density import estimate_liquid_density
+from builder.chem.structure3d import max_3d_atoms
+from builder.core.values import Provenance, Value, estimated
+from builder.derive.fire import inherited_kind
+
+KEYS = ("hansen_delta_d", "hansen_delta_p", "hansen_delta_h")
+#: default largest Hansen distance of a substitute (MPa½): about the radius of a typical resin's
+#: solubility sphere (common practice), so a candidate inside it dissolves much of what the target does
+DEFAULT_MAX_RA = 6.0
+#: substitutes shown on a datasheet
+SHOWN_SUBSTITUTES = 5
+#: health hazard statements (GHS H300–H373, EUH070 and similar are left out)
+_HEALTH = ("H30", "H31", "H32", "H33", "H34", "H35", "H36", "H37")
+
+
+def hansen_values(entry, mol, values) -> dict[str, Value]:
+    """δD, δP, δH, the cohesive-energy shares, and density / molar volume where not stated."""
+    out: dict[str, Value] = {}
+    h = entry.hansen
+    if h is not None:
+        prov = Provenance(h.provenance, source=h.source, note=h.note)
+        for key, x in zip(KEYS, (h.delta_d, h.delta_p, h.delta_h)):
+            out[key] = Value(x, "MPa**0.5", prov)
+    elif mol is not None and mol.GetNumHeavyAtoms() <= max_3d_atoms():
+        # the parameters are for solvents and small molecules; the estimate's features need the 3D
+        # dipole, which is not computed above the 3D budget either (a polymer states its sphere)
+        est = estimate_hansen(mol)
+        if est.delta_d is not None:
+            for key, x, u, part in zip(KEYS, (est.delta_d, est.delta_p, est.delta_h), (est.u_d, est.u_p, est.u_h),
+                                       COMPONENTS):
+                lo, hi = (est.interval90 or {}).get(part, (None, None))
+                note = f"90 % interval {lo:.1f} to {hi:.1f} MPa½" if lo is not None else None
+                out[key] = estimated(max(x, 0.0), "MPa**0.5", "hansen-mathieu-trees", u, note)
+    out.update(cohesive_shares(out))
+    if mol is not None and "density" not in values:
+        vol = estimate_liquid_density(mol)
+        if vol.density_kg_m3 is not None:
+            out["density"] = estimated(vol.density_kg_m3, "kg/m**3", "liquid-volume-mathieu-2018", vol.u_density,
+                                       "liquid at 25 °C, from structure")
+    density = values.get("density") or out.get("density")
+    mm = values.get("molar_mass")
+    if density is not None and mm is not None and density.value > 0:
+        volume = mm.value / (density.value / 1000.0)  # g/mol over g/cm³: cm³/mol
+        u = volume * density.uncertainty / density.value if density.uncertainty else None
+        out["molar_volume"] = Value(volume, "cm**3/mol", Provenance(inherited_kind(density), method="molar-volume",
+                                                                     note="molar mass over density"), u)
+    return out
+
+
+def cohesive_shares(params: dict[str, Value]) -> dict[str, Value]:
+    """The shares of the cohesive energy (δD²/δ², δP²/δ², δH²/δ²) as percentages."""
+    if not all(k in params for k in KEYS):
+        return {}
+    d, p, h = (params[k].value for k in KEYS)
+    if d * d + p * p + h * h <= 0:
+        return {}
+    split = cohesive_energy_split(d, p, h)
+    kind = inherited_kind(*(params[k] for k in KEYS))
+    prov = Provenance(kind if kind != "rule" else "computed", method="cohesive-energy-split",
+                      note="from the Hansen parameters above")
+    return {f"cohesive_share_{name}": Value(100 * split[part], "%", prov)
+            for name, part in (("dispersion", "dispersion"), ("polar", "polar"), ("hbond", "hydrogen_bond"))}
+
+
+def blend_values(parts: list[tuple[dict, float]]) -> dict[str, Value]:
+    """A mixture's parameters: the volume-fraction average of its components' (``parts``: each
+    component's values and its volume fraction); none when a component has no parameters."""
+    if not parts or any(not all(k in vals for k in KEYS) for vals, _ in parts):
+        return {}
+    total = sum(phi for _, phi in parts)
+    out = {}
+    for key in KEYS:
+        x = sum(vals[key].value * phi for vals, phi in parts) / total
+        u = math.sqrt(sum(((vals[key].uncertainty or 0.0) * phi / total) ** 2 for vals, phi in parts)) or None
+        out[key] = estimated(x, "MPa**0.5", "hansen-blend", u, "volume-fraction average of the components")
+    out.update(cohesive_shares(out))
+    return out
+
+
+def params_of(d) -> tuple[float, float, float] | None:
+    if all(d.get(k) is not None for k in KEYS):
+        return tuple(d.get(k).value for k in KEYS)  # type: ignore[return-value]
+    return None
+
+
+def is_liquid(d) -> bool:
+    state = d.label("physical_state")
+    return state is not None and state.code == "liquid"
+
+
+def solvent_of(d) -> solvency.Solvent | None:
+    """The ranking's record of a catalog liquid (None for a solid, a gas or one without parameters)."""
+    params = params_of(d)
+    if params is None or not is_liquid(d) or d.entry.hansen_sphere is not None:
+        return None
+    fp = d.get("flash_point")
+    cat = d.label("flammable_category")
+    band = d.label("volatility_band")
+    return solvency.Solvent(d.entry.id, params, fp.value if fp else None,
+                            cat.code if cat is not None and isinstance(cat.code, int) else None,
+                            band.code if band else None, frozenset(a.id for a in d.hazard_alerts),
+                            frozenset(h for h in d.entry.hazard_statements if h.startswith(_HEALTH)))
+
+
+@dataclass(frozen=True)
+class SphereMatch:
+    """A catalog liquid measured against a resin's solubility sphere."""
+
+    id: str
+    ra: float
+    red: float
+    verdict: str  # inside, borderline, outside
+
+
+@dataclass(frozen=True)
+class Relations:
+    """Per entry id: safer substitutes (for a liquid) and sphere matches (for a resin)."""
+
+    substitutes: dict
+    matches: dict
+
+
+def substitutes_for(target, derived, max_ra: float = DEFAULT_MAX_RA, blends: bool = False,
+                    safer_only: bool = True) -> list:
+    """Candidates of similar solvency for the liquid ``target`` (a Derived), safest first; with
+    ``safer_only``, only those the ranking puts before the target itself."""
+    me = solvent_of(target)
+    if me is None:
+        return []
+    others = [s for s in (solvent_of(d) for d in derived) if s is not None and s.id != me.id]
+    ranked = solvency.rank_substitutes(me, others, max_ra, blends=blends)
+    if not safer_only:
+        return ranked
+    mine = solvency.safety_key(me, 0.0)[:-2]
+    return [c for c in ranked if c.better and solvency.safety_key(_record(c, others), c.ra)[:-2] < mine]
+
+
+def _record(candidate, others) -> solvency.Solvent:
+    by_id = {s.id: s for s in others}
+    if candidate.id is not None:
+        return by_id[candidate.id]
+    (a, pa), (b, _) = candidate.blend
+    return solvency._blend_record(by_id[a], by_id[b], pa)
+
+
+def sphere_matches(resin, derived) -> list[SphereMatch]:
+    """Every catalog liquid with its RED to the resin's stated sphere, nearest first."""
+    sphere = resin.entry.hansen_sphere
+    if sphere is None:
+        return []
+    centre = (sphere.delta_d, sphere.delta_p, sphere.delta_h)
+    out = []
+    for d in derived:
+        s = solvent_of(d)
+        if s is None:
+            continue
+        ra = solvency.hansen_distance(s.hansen, centre)
+        red = solvency.relative_energy_difference(ra, sphere.radius)
+        out.append(SphereMatch(d.entry.id, ra, red, solvency.red_class(red)))
+    return sorted(out, key=lambda m: (m.red, m.id))
+
+
+def solvency_relations(derived) -> Relations:
+    subs, matches = {}, {}
+    for d in derived:
+        if d.entry.hansen_sphere is not None:
+            matches[d.entry.id] = tuple(sphere_matches(d, derived))
+        else:
+            found = substitutes_for(d, derived)
+            if found:
+                subs[d.entry.id] = tuple(found[:SHOWN_SUBSTITUTES])
+    return Relations(subs, matches)

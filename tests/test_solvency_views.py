@@ -1,0 +1,122 @@
+"""Hansen parameters on the datasheet, in profile JSON and the exports; the ``substitute`` command;
+the solvency page. The estimators themselves are tested in tests/chem/test_hansen.py and
+test_solvency.py (against the Hansen sets in ``chemicals`` and hand-computed cases)."""
+from __future__ import annotations
+
+import json
+import math
+
+import pytest
+
+from builder.chem import solvency
+from builder.cli import main
+from builder.derive.catalog import derive_catalog
+from builder.load.entries import load_catalog
+
+from conftest import DEMO
+
+TOLUENE = """\
+name: Toluene
+smiles: Cc1ccccc1
+properties:
+  boiling_point: {value: 110.6 °C, source: crc-95}
+  density: {value: 0.8669 g/cm3, source: crc-95}
+  hansen: {delta_d: 18.0, delta_p: 1.4, delta_h: 2.0, source: crc-95}
+"""
+ACETONE = """\
+name: Acetone
+smiles: CC(C)=O
+properties:
+  boiling_point: {value: 56.05 °C, source: crc-95}
+  density: {value: 0.7845 g/cm3, source: crc-95}
+  hansen: {delta_d: 15.5, delta_p: 10.4, delta_h: 7.0, source: crc-95}
+"""
+BLEND = """\
+name: Blend
+type: mixture
+composition:
+  - component: toluene
+    fraction: 50 % v/v
+  - component: acetone
+    fraction: balance
+"""
+
+
+def test_stated_parameters_win_and_a_blend_is_their_volume_average(make_entries):
+    # the toluene and acetone sets are C. M. Hansen's handbook values (Hansen 2007, from memory)
+    folder = make_entries({"toluene.yaml": TOLUENE, "acetone.yaml": ACETONE, "blend.yaml": BLEND})
+    catalog, diags = load_catalog(folder)
+    assert catalog is not None, [str(d) for d in diags]
+    by_id = {d.entry.id: d for d in derive_catalog(catalog)}
+    tol = by_id["toluene"]
+    assert tol.get("hansen_delta_d").value == 18.0 and tol.get("hansen_delta_d").kind == "literature"
+    shares = [tol.get(f"cohesive_share_{k}").value for k in ("dispersion", "polar", "hbond")]
+    assert sum(shares) == pytest.approx(100.0)
+    assert shares[0] == pytest.approx(100 * 18.0**2 / (18.0**2 + 1.4**2 + 2.0**2))
+    blend = by_id["blend"]
+    # 50 % v/v of each, volumes additive (the composition is stated by volume): the plain average
+    for key, a, b in (("hansen_delta_d", 18.0, 15.5), ("hansen_delta_p", 1.4, 10.4), ("hansen_delta_h", 2.0, 7.0)):
+        assert blend.get(key).value == pytest.approx((a + b) / 2, abs=1e-6), key
+        assert blend.get(key).provenance.method == "hansen-blend"
+
+
+def test_profile_json_carries_hansen_values(capsys):
+    assert main(["profile", "CCO", "--json"]) == 0
+    result = json.loads(capsys.readouterr().out)
+    h = result["hansen"]
+    assert set(h) == {"delta_d", "delta_p", "delta_h"}
+    for v in h.values():
+        assert v["unit"] == "MPa^0.5" and v["provenance"]["kind"] == "estimated" and v["uncertainty"] > 0
+    # ethanol: δD 15.8, δP 8.8, δH 19.4 MPa½ (Hansen 2007, from memory): within 3 standard uncertainties
+    for key, ref in (("delta_d", 15.8), ("delta_p", 8.8), ("delta_h", 19.4)):
+        assert abs(h[key]["value"] - ref) <= 3 * h[key]["uncertainty"], key
+
+
+@pytest.mark.slow
+def test_substitute_on_a_demo_solvent_lists_a_safer_candidate(capsys):
+    assert main(["substitute", "toluene", "--entries", str(DEMO), "--json"]) == 0
+    out = json.loads(capsys.readouterr().out)
+    assert out["target"] == "toluene" and out["candidates"]
+    assert "one criterion" in out["caution"]
+    catalog, _ = load_catalog(DEMO)
+    by_id = {d.entry.id: d for d in derive_catalog(catalog)}
+    target = by_id["toluene"]
+    tp = tuple(target.get(k).value for k in ("hansen_delta_d", "hansen_delta_p", "hansen_delta_h"))
+    safer = []
+    for c in out["candidates"]:
+        if "id" not in c:
+            continue
+        other = by_id[c["id"]]
+        op = tuple(other.get(k).value for k in ("hansen_delta_d", "hansen_delta_p", "hansen_delta_h"))
+        # Ra = √(4ΔδD² + ΔδP² + ΔδH²), computed here by hand from the two entries' values
+        ra = math.sqrt(4 * (tp[0] - op[0]) ** 2 + (tp[1] - op[1]) ** 2 + (tp[2] - op[2]) ** 2)
+        assert c["ra"] == pytest.approx(ra, abs=1e-3) and ra <= out["max_ra"]
+        cat_t, cat_o = target.label("flammable_category").code, other.label("flammable_category")
+        if cat_o is None or (cat_o.code is not None and cat_o.code > cat_t):
+            safer.append(c["id"])
+            assert any(b["criterion"] == "flammable_category" for b in c["better"])
+    assert safer, "no candidate with a less severe flammable category"
+
+
+@pytest.mark.slow
+def test_substitute_on_a_resin_lists_the_liquids_inside_its_sphere(capsys):
+    assert main(["substitute", "hm-alkyd-resin", "--entries", str(DEMO), "--json"]) == 0
+    out = json.loads(capsys.readouterr().out)
+    inside = [m for m in out["liquids"] if m["verdict"] == "inside"]
+    assert inside and all(m["red"] < 1 for m in inside)
+    assert [m["red"] for m in out["liquids"]] == sorted(m["red"] for m in out["liquids"])
+    for m in out["liquids"]:
+        assert m["verdict"] == solvency.red_class(m["red"])
+
+
+def test_site_has_the_solvency_page_and_substitutes(make_entries, tmp_path):
+    folder = make_entries({"toluene.yaml": TOLUENE, "acetone.yaml": ACETONE})
+    out = tmp_path / "site"
+    assert main(["build", "--entries", str(folder), "--out", str(out), "--quiet"]) == 0
+    page = (out / "solvency.html").read_text(encoding="utf-8")
+    assert "solvency-map.svg" in page and "one criterion" in page
+    assert (out / "charts" / "solvency-map.svg").read_text(encoding="utf-8").startswith("<?xml")
+    sheet = (out / "materials" / "toluene.html").read_text(encoding="utf-8")
+    assert "Hansen dispersion parameter" in sheet
+    data = json.loads((out / "data" / "toluene.json").read_text(encoding="utf-8"))["entry"]
+    assert data["hansen"]["delta_p"]["value"] == 1.4
