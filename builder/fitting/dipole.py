@@ -31,11 +31,11 @@ takes about 30-100 s of one core.
 
 from __future__ import annotations
 
-import hashlib
 import math
 import statistics
 import os
 import pickle
+import tempfile
 from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
@@ -43,9 +43,12 @@ from typing import Any
 import numpy as np
 from rdkit import Chem, RDLogger, rdBase
 
+from builder.fitting.boiling import split_hash  # the same split rule as the boiling-point fit
+
 HELD_OUT_PERCENT = 20
 MAX_HEAVY_ATOMS = 30
-CACHE_PATH = Path(os.environ.get("COHESION_DIPOLE_CACHE", "/tmp/cohesion-dipole-features.pkl"))
+
+CACHE_PATH = Path(os.environ.get("COHESION_DIPOLE_CACHE", Path(tempfile.gettempdir()) / "cohesion-dipole-features.pkl"))
 
 
 @dataclass(frozen=True)
@@ -58,11 +61,6 @@ class Record:
     inchikey: str
     dipole_D: float
     held_out: bool
-
-
-def split_hash(inchikey: str) -> int:
-    """Return a number in 0-99 from the SHA-256 of the InChIKey's first block."""
-    return int(hashlib.sha256(inchikey[:14].encode("ascii")).hexdigest()[:8], 16) % 100
 
 
 def load_records() -> list[Record]:
