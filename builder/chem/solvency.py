@@ -210,7 +210,7 @@ def compare(candidate: Solvent, target: Solvent) -> tuple[tuple[Comparison, ...]
     return tuple(better), tuple(worse)
 
 
-def _blend_record(a: Solvent, b: Solvent, phi: float) -> Solvent:
+def blend_record(a: Solvent, b: Solvent, phi: float) -> Solvent:
     """The blend as the ranking sees it: the less safe part on every criterion."""
     flashes = [f for f in (a.flash_point_K, b.flash_point_K) if f is not None]
     cats = [c for c in (a.flammable_category, b.flammable_category) if c is not None]
@@ -262,6 +262,6 @@ def rank_substitutes(target: Solvent, candidates: Sequence[Solvent], max_ra: flo
             if ra >= min(hansen_distance(a.hansen, target.hansen), hansen_distance(b.hansen, target.hansen)):
                 continue
             phi = round(phi, 3)
-            add(_blend_record(a, b, phi), ((a.id, phi), (b.id, round(1.0 - phi, 3))))
+            add(blend_record(a, b, phi), ((a.id, phi), (b.id, round(1.0 - phi, 3))))
     scored.sort(key=lambda item: item[0])
     return [cand for _, cand in scored]

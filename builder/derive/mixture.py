@@ -210,18 +210,18 @@ def inline_entry(mixture: Entry, index: int, comp: Component) -> Entry:
 
 @dataclass(frozen=True)
 class _Part:
-    """One substance of the flattened composition: mass-fraction bounds and where it came from."""
+    """One substance of the flattened composition and where it came from."""
 
     volatile: Volatile
     stated: str
-    low: float
-    high: float
     via: str | None
 
 
-def _flatten(entry: Entry, components: Mapping[str, object], derive_inline) -> tuple[list[_Part], bool]:
-    """The mixture's substances with mass-fraction bounds, nested mixtures opened (at their nominal
-    composition); and whether any stated figure is a range."""
+def _flatten(entry: Entry, components: Mapping[str, object], derive_inline
+             ) -> tuple[list[_Part], tuple[float, ...], list[tuple[float, ...]]]:
+    """The mixture's substances (nested mixtures opened at their nominal composition), their mass
+    fractions at the nominal composition, and at every extreme composition the stated ranges allow
+    (none when nothing is a range); the compositions are found on the stated basis, then converted."""
     comps = entry.composition
     vols: list[list[tuple[Volatile, float, str | None]]] = []  # per top-level component: (substance, share)
     for i, comp in enumerate(comps):
@@ -254,18 +254,17 @@ def _flatten(entry: Entry, components: Mapping[str, object], derive_inline) -> t
     if basis == "volume" and None in rho:
         missing = [c.name for c, d in zip(comps, rho) if d is None]
         raise _Problem("volume fractions need each component's density; none is known for " + ", ".join(missing))
-    corners = mix.composition_corners(lows, highs)
-    masses = [mix.to_mass_fractions(c, basis, M, rho) for c in corners]
-    out: list[_Part] = []
-    for i, (comp, parts) in enumerate(zip(comps, vols)):
-        w_lo = min(m[i] for m in masses)
-        w_hi = max(m[i] for m in masses)
-        for v, share, via in parts:
-            out.append(_Part(v, comp.fraction.text if via is None else f"{share:.3g} of {comp.fraction.text}",
-                             w_lo * share, w_hi * share, via))
-    ranged = any(c.fraction.balance is False and c.fraction.is_range for c in comps) or \
-        (any(c.fraction.balance for c in comps) and any(c.fraction.is_range for c in comps))
-    return out, ranged
+    out = [_Part(v, comp.fraction.text if via is None else f"{share:.3g} of {comp.fraction.text}", via)
+           for comp, parts in zip(comps, vols) for v, share, via in parts]
+
+    def spread(top: tuple[float, ...]) -> tuple[float, ...]:
+        """Top-level fractions on the stated basis → mass fractions of the flattened substances."""
+        w = mix.to_mass_fractions(top, basis, M, rho)
+        return tuple(wi * share for wi, parts in zip(w, vols) for _, share, _ in parts)
+
+    ranged = any(c.fraction.is_range for c in comps)
+    corners = [spread(c) for c in mix.composition_corners(lows, highs)] if ranged else []
+    return out, spread(mix.nominal_composition(lows, highs)), corners
 
 
 @dataclass
@@ -343,16 +342,14 @@ def derive_mixture(entry: Entry, components: Mapping[str, object], locations: Ma
     values["store_temperature"] = store_T
     values.update(entry.properties)
     try:
-        parts, ranged = _flatten(entry, components, derive_inline)
+        parts, nominal, corners = _flatten(entry, components, derive_inline)
     except _Problem as exc:
         labels["mixture_problem"] = Label(f"Nothing derived for this mixture: {exc}",
                                           Provenance("rule", method="mixture-vle"))
         return MixtureResult(values, labels)
     vols = [p.volatile for p in parts]
-    lows, highs = [p.low for p in parts], [p.high for p in parts]
     gammas, model_name, model_note = _activity(vols)
-    corners = mix.composition_corners(lows, highs) if ranged else []
-    nominal = mix.nominal_composition(lows, highs)
+    ranged = bool(corners)
     try:
         states = [_solve(w, vols, gammas, store_T.value) for w in [nominal, *corners]]
     except vle.NoSolution as exc:

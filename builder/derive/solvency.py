@@ -141,52 +141,56 @@ class Relations:
 
 
 def substitutes_for(target, derived, max_ra: float = DEFAULT_MAX_RA, blends: bool = False,
-                    safer_only: bool = True) -> list:
+                    safer_only: bool = True, solvents: dict | None = None) -> list:
     """Candidates of similar solvency for the liquid ``target`` (a Derived), safest first; with
-    ``safer_only``, only those the ranking puts before the target itself."""
-    me = solvent_of(target)
+    ``safer_only``, only those the ranking puts before the target itself. ``solvents``: the
+    ranking records of ``derived`` by id, when the caller has them already (``catalog_solvents``)."""
+    solvents = catalog_solvents(derived) if solvents is None else solvents
+    me = solvents.get(target.entry.id)
     if me is None:
         return []
-    others = [s for s in (solvent_of(d) for d in derived) if s is not None and s.id != me.id]
+    others = [s for key, s in solvents.items() if key != me.id]
     ranked = solvency.rank_substitutes(me, others, max_ra, blends=blends)
     if not safer_only:
         return ranked
     mine = solvency.safety_key(me, 0.0)[:-2]
-    return [c for c in ranked if c.better and solvency.safety_key(_record(c, others), c.ra)[:-2] < mine]
+    return [c for c in ranked if c.better and solvency.safety_key(_record(c, solvents), c.ra)[:-2] < mine]
 
 
-def _record(candidate, others) -> solvency.Solvent:
-    by_id = {s.id: s for s in others}
+def catalog_solvents(derived) -> dict[str, solvency.Solvent]:
+    """The ranking's record of every catalog liquid with Hansen parameters, by id (catalog order)."""
+    return {s.id: s for s in (solvent_of(d) for d in derived) if s is not None}
+
+
+def _record(candidate, solvents: dict) -> solvency.Solvent:
     if candidate.id is not None:
-        return by_id[candidate.id]
+        return solvents[candidate.id]
     (a, pa), (b, _) = candidate.blend
-    return solvency._blend_record(by_id[a], by_id[b], pa)
+    return solvency.blend_record(solvents[a], solvents[b], pa)
 
 
-def sphere_matches(resin, derived) -> list[SphereMatch]:
+def sphere_matches(resin, derived, solvents: dict | None = None) -> list[SphereMatch]:
     """Every catalog liquid with its RED to the resin's stated sphere, nearest first."""
     sphere = resin.entry.hansen_sphere
     if sphere is None:
         return []
     centre = (sphere.delta_d, sphere.delta_p, sphere.delta_h)
     out = []
-    for d in derived:
-        s = solvent_of(d)
-        if s is None:
-            continue
+    for s in (catalog_solvents(derived) if solvents is None else solvents).values():
         ra = solvency.hansen_distance(s.hansen, centre)
         red = solvency.relative_energy_difference(ra, sphere.radius)
-        out.append(SphereMatch(d.entry.id, ra, red, solvency.red_class(red)))
+        out.append(SphereMatch(s.id, ra, red, solvency.red_class(red)))
     return sorted(out, key=lambda m: (m.red, m.id))
 
 
 def solvency_relations(derived) -> Relations:
     subs, matches = {}, {}
+    solvents = catalog_solvents(derived)
     for d in derived:
         if d.entry.hansen_sphere is not None:
-            matches[d.entry.id] = tuple(sphere_matches(d, derived))
-        else:
-            found = substitutes_for(d, derived)
+            matches[d.entry.id] = tuple(sphere_matches(d, derived, solvents))
+        elif d.entry.id in solvents:
+            found = substitutes_for(d, derived, solvents=solvents)
             if found:
                 subs[d.entry.id] = tuple(found[:SHOWN_SUBSTITUTES])
     return Relations(subs, matches)

@@ -15,6 +15,7 @@ mixture that itself contains a mixture (one level of nesting is allowed), and cy
 """
 from __future__ import annotations
 
+import difflib
 import re
 
 from builder.core.diagnostics import Diagnostic
@@ -211,7 +212,6 @@ def composition_problems(entries: dict[str, Entry], known: set[str] | None = Non
                 error("the mixture names itself as a component")
                 continue
             if comp.entry_id not in known:
-                import difflib
                 close = difflib.get_close_matches(comp.entry_id, sorted(known), n=1)
                 error(f"unknown component '{comp.entry_id}'",
                       f"did you mean '{close[0]}'?" if close else "name an entry id of the catalog (its file name)")

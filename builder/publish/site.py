@@ -144,13 +144,13 @@ def render_site(catalog: Catalog, derived: tuple[Derived, ...], out: Path, diagn
     writer.page("stores.html", "by_store.html", key=whole, **common)
     writer.page("categories.html", "by_category.html", key=whole, **common)
     writer.page("trends.html", "trends.html", key=whole, series_charts=series_charts, **common)
-    solvents = solvency_table(derived)
+    solvents, resins = solvency_table(derived), spheres(derived)
     # made again only when what it plots changes: names, parameters, dominant forces, spheres
     plotted = repr([(d.entry.id, d.entry.name, p, d.label("dominant_force").code if d.label("dominant_force") else None)
-                    for d, p in solvents]) + repr([(d.entry.name, sph) for d, sph in spheres(derived)])
+                    for d, p in solvents]) + repr([(d.entry.name, sph) for d, sph in resins])
     writer.made("charts/solvency-map.svg", key_of(base, "solvency-map", plotted),
-                lambda: charts.solvency_map_svg(solvents, spheres(derived)))
-    writer.page("solvency.html", "solvency.html", key=whole, solvents=solvents, spheres=spheres(derived),
+                lambda: charts.solvency_map_svg(solvents, resins))
+    writer.page("solvency.html", "solvency.html", key=whole, solvents=solvents, spheres=resins,
                 relations=relations, **common)
     writer.page("sources.html", "sources.html", key=whole, sources_used=by_source, **common)
     writer.page("methods.html", "methods.html", key=whole, methods_used=by_method, **common)

@@ -22,7 +22,7 @@ from builder.core.methods import METHODS, plain_name
 from builder.core.quantities import DERIVED_QUANTITIES
 from builder.core.quantities import STATED_PROPERTIES as PROPERTIES
 from builder.core.units import format_value
-from builder.core.values import KINDS, Label
+from builder.core.values import KINDS, Label, Value, computed
 from builder.derive.fire import NOTES_DISCLAIMER
 from builder.chem.solvency import CAUTION as SOLVENCY_CAUTION
 from builder.derive.forces import FORCE_WORDS
@@ -87,6 +87,11 @@ def comparison_text(comparisons) -> str:
                      f"(this material: {_criterion_value(c.criterion, c.target)})" for c in comparisons)
 
 
+def distance_value(x: float, unit: str = "MPa**0.5") -> Value:
+    """A Hansen distance Ra (or, with ``unit="dimensionless"``, a RED) as a computed value with its method."""
+    return computed(x, unit, "hansen-distance")
+
+
 def txy_path(entry_id: str) -> str:
     """Where a binary mixture's T–x–y diagram is written (a folder no entry file can reach)."""
     return f"charts/mixture-{entry_id}-txy.svg"
@@ -107,7 +112,8 @@ def environment(templates: Path = TEMPLATES) -> jinja2.Environment:
     env.filters["formula"] = formula_markup
     env.globals.update(use_list=use_list, FLAMMABLE_CATEGORIES=FLAMMABLE_CATEGORIES, KIND_MARKS=KIND_MARKS, KINDS=KINDS, CAUTION=CAUTION, METHODS=METHODS,
                        version=__version__, property_label=property_label, txy_path=txy_path,
-                       comparison_text=comparison_text, SOLVENCY_CAUTION=SOLVENCY_CAUTION, condition_text=condition_text,
+                       comparison_text=comparison_text, SOLVENCY_CAUTION=SOLVENCY_CAUTION,
+                       distance_value=distance_value, condition_text=condition_text,
                        temperature_text=temperature_text, FORCE_WORDS=FORCE_WORDS, first_sentence=first_sentence,
                        NOTES_DISCLAIMER=NOTES_DISCLAIMER,
                        table_rows=table_rows, card_rows=card_rows, plain_name=plain_name,
