@@ -66,9 +66,9 @@ def _groups(catalog: Catalog, derived) -> dict:
             "unstored": [d for d in derived if not d.entry.catalog.locations]}
 
 
-def _catalog_charts(derived, writer: Writer, base: str) -> list:
-    """Write the catalog-wide charts, each made again only when the data it plots changes; returns
-    the homologous series charts as (file name, title, members) for the trends page."""
+def _catalog_charts(derived, tasks: list, base: str) -> list:
+    """Add to ``tasks`` the writing of the catalog-wide charts, each made again only when the data it
+    plots changes; returns the homologous series charts as (file name, title, members) for the trends page."""
     points = []
     for d in derived:
         bp, mm = d.get("boiling_point"), d.get("molar_mass")
@@ -78,16 +78,16 @@ def _catalog_charts(derived, writer: Writer, base: str) -> list:
     masses = [p[1] for p in points] or [100.0]
     top = max(min(max(masses) * 1.1, 366.0), 30.0)  # the n-alkane table starts at methane (16 g/mol)
     alkane = [(m, n_alkane_boiling_point(m)) for m in [16.05 + i * (top - 16.05) / 60 for i in range(61)]]
-    writer.made("charts/boiling-vs-mass.svg", key_of(base, "chart", repr(points), repr(alkane)),
-                lambda: charts.boiling_vs_mass_svg(points, alkane))
+    tasks.append(lambda w: w.made("charts/boiling-vs-mass.svg", key_of(base, "chart", repr(points), repr(alkane)),
+                                  lambda: charts.boiling_vs_mass_svg(points, alkane)))
     series_charts = []
     for i, series in enumerate(homologous_series(derived)):
         pts = [(d.entry.name, formula_counts(d.identity.formula)[0]["C"], d.get("boiling_point").value)
                for d in series if d.get("boiling_point") is not None]
         title = " → ".join(d.entry.name for d in series)
         name = f"series-{i + 1}.svg"
-        writer.made(f"charts/{name}", key_of(base, "series", title, repr(pts)),
-                    lambda title=title, pts=pts: charts.series_svg(title, pts))
+        tasks.append(lambda w, name=name, title=title, pts=pts: w.made(
+            f"charts/{name}", key_of(base, "series", title, repr(pts)), lambda: charts.series_svg(title, pts)))
         series_charts.append((name, title, series))
     return series_charts
 
@@ -125,8 +125,10 @@ def render_site(catalog: Catalog, derived: tuple[Derived, ...], out: Path, diagn
     # what every catalog-wide page is made from: each entry as derived, its links, the stores and sources
     whole = key_of(base, "whole", *(f"{k}={v}" for k, v in sorted(entry_keys.items())), repr(sorted(links.items())),
                    repr(catalog.locations), repr(catalog.sources), repr(tuple(diagnostics)))
-    series_charts = _catalog_charts(derived, writer, base)
-    writer.made("search-index.js", whole, lambda: exports.search_index_js(derived))
+    # every catalog-wide file is a task of its own (a function of a writer), run beside the datasheets
+    wide: list = []
+    series_charts = _catalog_charts(derived, wide, base)
+    wide.append(lambda w: w.made("search-index.js", whole, lambda: exports.search_index_js(derived)))
     parts = {}
     for d in derived:
         mine = links.get(d.entry.id, ())
@@ -136,48 +138,54 @@ def render_site(catalog: Catalog, derived: tuple[Derived, ...], out: Path, diagn
             part = exports.entry_part(d, mine)
             cache.put("json", part_key, part)
         parts[d.entry.id] = (part_key, part)
-    writer.made("catalog.json", whole, lambda: exports.catalog_json_from_parts([parts[d.entry.id][1] for d in derived]))
-    writer.made("catalog.csv", whole, lambda: exports.catalog_csv(derived))
+    wide.append(lambda w: w.made("catalog.json", whole,
+                                 lambda: exports.catalog_json_from_parts([parts[d.entry.id][1] for d in derived])))
+    wide.append(lambda w: w.made("catalog.csv", whole, lambda: exports.catalog_csv(derived)))
     common = dict(catalog=catalog, derived=derived, by_id=by_id, groups=_groups(catalog, derived))
-    writer.page("index.html", "index.html", key=whole, **common)
-    writer.page("forces.html", "by_force.html", key=whole, **common)
-    writer.page("stores.html", "by_store.html", key=whole, **common)
-    writer.page("categories.html", "by_category.html", key=whole, **common)
-    writer.page("trends.html", "trends.html", key=whole, series_charts=series_charts, **common)
+    for path, template in (("index.html", "index.html"), ("forces.html", "by_force.html"),
+                           ("stores.html", "by_store.html"), ("categories.html", "by_category.html")):
+        wide.append(lambda w, path=path, template=template: w.page(path, template, key=whole, **common))
+    wide.append(lambda w: w.page("trends.html", "trends.html", key=whole, series_charts=series_charts, **common))
     solvents, resins = solvency_table(derived), spheres(derived)
     # made again only when what it plots changes: names, parameters, dominant forces, spheres
     plotted = repr([(d.entry.id, d.entry.name, p, d.label("dominant_force").code if d.label("dominant_force") else None)
                     for d, p in solvents]) + repr([(d.entry.name, sph) for d, sph in resins])
-    writer.made("charts/solvency-map.svg", key_of(base, "solvency-map", plotted),
-                lambda: charts.solvency_map_svg(solvents, resins))
-    writer.page("solvency.html", "solvency.html", key=whole, solvents=solvents, spheres=resins,
-                relations=relations, **common)
-    writer.page("sources.html", "sources.html", key=whole, sources_used=by_source, **common)
-    writer.page("methods.html", "methods.html", key=whole, methods_used=by_method, **common)
-    writer.page("build.html", "build.html", key=key_of(whole, repr(revision)), diagnostics=diagnostics,
-                revision=revision, **common)
+    wide.append(lambda w: w.made("charts/solvency-map.svg", key_of(base, "solvency-map", plotted),
+                                 lambda: charts.solvency_map_svg(solvents, resins)))
+    wide.append(lambda w: w.page("solvency.html", "solvency.html", key=whole, solvents=solvents, spheres=resins,
+                                 relations=relations, **common))
+    wide.append(lambda w: w.page("sources.html", "sources.html", key=whole, sources_used=by_source, **common))
+    wide.append(lambda w: w.page("methods.html", "methods.html", key=whole, methods_used=by_method, **common))
+    wide.append(lambda w: w.page("build.html", "build.html", key=key_of(whole, repr(revision)),
+                                 diagnostics=diagnostics, revision=revision, **common))
     cards_per_page = 8
-    writer.page("cards/all.html", "cards.html", key=whole, title="whole catalog", cards=derived,
-                per_page=cards_per_page, **common)
+    wide.append(lambda w: w.page("cards/all.html", "cards.html", key=whole, title="whole catalog", cards=derived,
+                                 per_page=cards_per_page, **common))
     for key, loc in catalog.locations.items():
         members = [d for d in derived if key in d.entry.catalog.locations]
         members_key = key_of(base, "store", repr(loc), *(entry_keys[d.entry.id] for d in members))
-        writer.page(f"cards/{key}.html", "cards.html", key=members_key, title=loc.name, cards=members,
-                    per_page=cards_per_page, **common)
-        sheet_key = key_of(members_key, "sheet", whole)  # a store sheet may compare its materials with others
-        if not writer.reuse(short_path(f"stores/{key}.html"), sheet_key):
-            writer.page(f"stores/{key}.html", "store_sheet.html", stamp=stamp, **store_sheet(catalog, derived, key),
-                        **common)
-    job = _EntryFiles(catalog, by_id, links, parts, entry_keys, base, revision, common, relations)
+
+        def store_files(w, key=key, loc=loc, members=members, members_key=members_key):
+            w.page(f"cards/{key}.html", "cards.html", key=members_key, title=loc.name, cards=members,
+                   per_page=cards_per_page, **common)
+            sheet_key = key_of(members_key, "sheet", whole)  # a store sheet may compare its materials with others
+            if not w.reuse(short_path(f"stores/{key}.html"), sheet_key):
+                w.page(f"stores/{key}.html", "store_sheet.html", stamp=stamp, **store_sheet(catalog, derived, key),
+                       **common)
+        wide.append(store_files)
+    job = _EntryFiles(catalog, by_id, links, parts, entry_keys, base, revision, common, relations, wide)
     chunks = [list(range(i, min(i + _CHUNK, len(derived)))) for i in range(0, len(derived), _CHUNK)]
+    # the catalog-wide tasks first (the big pages take longest), then the datasheets in chunks
+    tasks = [("wide", i) for i in range(len(wide))] + [("entries", c) for c in chunks]
     done = 0
-    for written, made_keys, reused in _run_chunks(job, writer, chunks, jobs):
+    for (kind, what), (written, made_keys, reused) in zip(tasks, _run_tasks(job, writer, tasks, jobs), strict=True):
         writer.written.extend(written)
         writer.keys.update(made_keys)
         writer.reused += reused
-        done = min(done + _CHUNK, len(derived))
-        if progress:
-            progress(done, len(derived))
+        if kind == "entries":
+            done = min(done + len(what), len(derived))
+            if progress:
+                progress(done, len(derived))
     if progress:
         progress(len(derived), len(derived))
     if keys is not None:
@@ -219,8 +227,9 @@ _FORKED: tuple | None = None
 class _EntryFiles:
     """Everything needed to write one entry's files: drawing, vapor chart, JSON, datasheet."""
 
-    def __init__(self, catalog, by_id, links, parts, entry_keys, base, revision, common, relations):
+    def __init__(self, catalog, by_id, links, parts, entry_keys, base, revision, common, relations, wide=()):
         self.catalog, self.by_id, self.links, self.parts = catalog, by_id, links, parts
+        self.wide = list(wide)  # the catalog-wide files, each a function of a writer
         self.relations = relations
         self.entry_keys, self.base, self.revision, self.common = entry_keys, base, revision, common
         self.derived = common["derived"]
@@ -257,31 +266,38 @@ class _EntryFiles:
                         json_ld=exports.json_ld(d), **self.common)
 
 
-def _run_chunks(job: _EntryFiles, writer: Writer, chunks: list, jobs: int):
-    """(written, keys, reused) per chunk, in chunk order, from ``jobs`` processes or this one."""
+def _run_tasks(job: _EntryFiles, writer: Writer, tasks: list, jobs: int):
+    """(written, keys, reused) per task, in task order, from ``jobs`` processes or this one.
+
+    A task is ``("wide", i)`` (the catalog-wide file ``job.wide[i]``) or ``("entries", indices)``.
+    """
     global _FORKED
-    if jobs > 1 and len(chunks) > 1 and "fork" in multiprocessing.get_all_start_methods():
+    if jobs > 1 and len(tasks) > 1 and "fork" in multiprocessing.get_all_start_methods():
         _FORKED = (job, writer.env)
         try:
             context = multiprocessing.get_context("fork")
-            with ProcessPoolExecutor(max_workers=min(jobs, len(chunks)), mp_context=context) as pool:
-                tasks = [(c, writer.out, writer.previous, writer.previous_keys) for c in chunks]
-                yield from pool.map(_write_chunk, tasks)
+            with ProcessPoolExecutor(max_workers=min(jobs, len(tasks)), mp_context=context) as pool:
+                args = [(t, writer.out, writer.previous, writer.previous_keys) for t in tasks]
+                yield from pool.map(_write_task, args)
         finally:
             _FORKED = None
     else:
-        for c in chunks:
-            yield _write_entries(job, Writer(writer.env, writer.out, writer.previous, writer.previous_keys), c)
+        for t in tasks:
+            yield _do_task(job, Writer(writer.env, writer.out, writer.previous, writer.previous_keys), t)
 
 
-def _write_entries(job: _EntryFiles, writer: Writer, indices) -> tuple[list[str], dict, int]:
-    for i in indices:
-        job.write(writer, job.derived[i])
+def _do_task(job: _EntryFiles, writer: Writer, task) -> tuple[list[str], dict, int]:
+    kind, what = task
+    if kind == "wide":
+        job.wide[what](writer)
+    else:
+        for i in what:
+            job.write(writer, job.derived[i])
     return writer.written, writer.keys, writer.reused
 
 
-def _write_chunk(args) -> tuple[list[str], dict, int]:
-    """In a forked worker: write the files of the entries at ``indices`` with a writer of its own."""
-    indices, out, previous, previous_keys = args
+def _write_task(args) -> tuple[list[str], dict, int]:
+    """In a forked worker: do one task (``_run_tasks``) with a writer of its own."""
+    task, out, previous, previous_keys = args
     job, env = _FORKED
-    return _write_entries(job, Writer(env, out, previous, previous_keys), indices)
+    return _do_task(job, Writer(env, out, previous, previous_keys), task)

@@ -6,6 +6,7 @@ site works from a web server and straight from disk (file://).
 """
 from __future__ import annotations
 
+import functools
 import json
 import os
 import posixpath
@@ -179,6 +180,7 @@ def visible_output(value):
     return visible(value) if isinstance(value, str) else value
 
 
+@functools.lru_cache(maxsize=65536)
 def relative(page: str, target: str) -> str:
     """Link from site path ``page`` to site path ``target`` (both posix, relative to the site root).
 
