@@ -120,3 +120,32 @@ def test_site_has_the_solvency_page_and_substitutes(make_entries, tmp_path):
     assert "Hansen dispersion parameter" in sheet
     data = json.loads((out / "data" / "toluene.json").read_text(encoding="utf-8"))["entry"]
     assert data["hansen"]["delta_p"]["value"] == 1.4
+
+
+@pytest.mark.parametrize("blends", [False, True])
+def test_leaving_out_the_less_safe_first_changes_no_safer_list(blends):
+    """``substitutes_for`` drops the less safe candidates before ranking; the safer list must be
+    exactly what ranking everything and then keeping the safer ones gives (the demo catalog,
+    every liquid as target, with and without blends), and taking only the first few gives the
+    head of that list."""
+    from builder.derive import solvency as derived_solvency
+
+    catalog, problems = load_catalog(DEMO)
+    assert not [p for p in problems if p.severity == "error"]
+    derived = derive_catalog(catalog)
+    solvents = derived_solvency.catalog_solvents(derived)
+    checked = 0
+    for d in derived:
+        me = solvents.get(d.entry.id)
+        if me is None:
+            continue
+        fast = derived_solvency.substitutes_for(d, derived, blends=blends, solvents=solvents)
+        ranked = solvency.rank_substitutes(me, [s for k, s in solvents.items() if k != me.id],
+                                           derived_solvency.DEFAULT_MAX_RA, blends=blends)
+        mine = solvency.safety_key(me, 0.0)[:-2]
+        slow = [c for c in ranked if c.better
+                and solvency.safety_key(derived_solvency._record(c, solvents), c.ra)[:-2] < mine]
+        assert fast == slow, d.entry.id
+        assert derived_solvency.substitutes_for(d, derived, blends=blends, solvents=solvents, limit=2) == slow[:2]
+        checked += bool(slow)
+    assert checked >= 3  # the demo has solvents with safer neighbours: the comparison is not empty

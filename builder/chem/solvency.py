@@ -49,9 +49,11 @@ References
 from __future__ import annotations
 
 import math
-from collections.abc import Sequence
+from collections.abc import Iterator, Sequence
 from dataclasses import dataclass, field
 from itertools import combinations
+
+import numpy as np
 
 Params = Sequence[float]
 
@@ -227,6 +229,17 @@ def blend_record(a: Solvent, b: Solvent, phi: float) -> Solvent:
     )
 
 
+def _within(pool: Sequence[Solvent], centre: Params, max_ra: float) -> list[Solvent]:
+    """The members of ``pool`` that may lie within ``max_ra`` of ``centre``: a vectorised
+    pre-selection with a margin, so that ``hansen_distance`` alone decides at the border."""
+    if not pool:
+        return []
+    params = np.asarray([s.hansen for s in pool], dtype=float)
+    d = (params - np.asarray(centre, dtype=float)) * np.sqrt(np.asarray(WEIGHTS, dtype=float))
+    near = np.einsum("ij,ij->i", d, d) <= (max_ra + 1e-6) ** 2
+    return [s for s, keep in zip(pool, near.tolist(), strict=True) if keep]
+
+
 def rank_substitutes(target: Solvent, candidates: Sequence[Solvent], max_ra: float,
                      blends: bool = False, min_fraction: float = 0.05) -> list[Candidate]:
     """Candidates within ``max_ra`` [MPa^½] of ``target``, safest first (``safety_key``).
@@ -241,18 +254,22 @@ def rank_substitutes(target: Solvent, candidates: Sequence[Solvent], max_ra: flo
     >>> [c.id for c in rank_substitutes(tol, [tol, xyl], max_ra=4.0)]
     ['xylene']
     """
+    return list(iter_substitutes(target, candidates, max_ra, blends, min_fraction))
+
+
+def iter_substitutes(target: Solvent, candidates: Sequence[Solvent], max_ra: float,
+                     blends: bool = False, min_fraction: float = 0.05) -> Iterator[Candidate]:
+    """``rank_substitutes`` one candidate at a time: each is compared with the target only when
+    it is asked for, so taking the first few of a long list costs little."""
     pool = [c for c in candidates if c.id != target.id]
-    scored: list[tuple[tuple, Candidate]] = []
+    scored: list[tuple[tuple, Solvent, tuple, float]] = []
 
     def add(record: Solvent, blend: tuple[tuple[str, float], ...]) -> None:
         ra = hansen_distance(record.hansen, target.hansen)
-        if ra > max_ra:
-            return
-        better, worse = compare(record, target)
-        cand = Candidate(None if blend else record.id, blend, tuple(record.hansen), round(ra, 3), better, worse)
-        scored.append((safety_key(record, ra), cand))
+        if ra <= max_ra:
+            scored.append((safety_key(record, ra), record, blend, ra))
 
-    for c in pool:
+    for c in _within(pool, target.hansen, max_ra):
         add(c, ())
     if blends:
         for a, b in combinations(sorted(pool, key=lambda s: s.id), 2):
@@ -263,5 +280,7 @@ def rank_substitutes(target: Solvent, candidates: Sequence[Solvent], max_ra: flo
                 continue
             phi = round(phi, 3)
             add(blend_record(a, b, phi), ((a.id, phi), (b.id, round(1.0 - phi, 3))))
-    scored.sort(key=lambda item: item[0])
-    return [cand for _, cand in scored]
+    scored.sort(key=lambda item: item[0])  # the keys end in the record's id: no two are equal
+    for _, record, blend, ra in scored:
+        better, worse = compare(record, target)
+        yield Candidate(None if blend else record.id, blend, tuple(record.hansen), round(ra, 3), better, worse)

@@ -15,6 +15,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from itertools import islice
 
 from builder.chem import solvency
 from builder.chem.hansen import COMPONENTS, cohesive_energy_split, estimate_hansen
@@ -141,20 +142,34 @@ class Relations:
 
 
 def substitutes_for(target, derived, max_ra: float = DEFAULT_MAX_RA, blends: bool = False,
-                    safer_only: bool = True, solvents: dict | None = None) -> list:
+                    safer_only: bool = True, solvents: dict | None = None, safety: dict | None = None,
+                    limit: int | None = None) -> list:
     """Candidates of similar solvency for the liquid ``target`` (a Derived), safest first; with
     ``safer_only``, only those the ranking puts before the target itself. ``solvents``: the
-    ranking records of ``derived`` by id, when the caller has them already (``catalog_solvents``)."""
+    ranking records of ``derived`` by id, when the caller has them already (``catalog_solvents``);
+    ``safety``: their safety keys without Ra (``safety_prefixes``), likewise; ``limit``: only the
+    first so many of the safer list."""
     solvents = catalog_solvents(derived) if solvents is None else solvents
     me = solvents.get(target.entry.id)
     if me is None:
         return []
     others = [s for key, s in solvents.items() if key != me.id]
-    ranked = solvency.rank_substitutes(me, others, max_ra, blends=blends)
+    safety = safety_prefixes(solvents) if safety is None else safety
+    mine = safety[me.id]
+    if safer_only:
+        # the safety key leaves out Ra, and a blend is never safer than its less safe part
+        # (blend_record takes the worse of the two on every criterion): the others can be left out first
+        others = [s for s in others if safety[s.id] < mine]
+    ranked = solvency.iter_substitutes(me, others, max_ra, blends=blends)
     if not safer_only:
-        return ranked
-    mine = solvency.safety_key(me, 0.0)[:-2]
-    return [c for c in ranked if c.better and solvency.safety_key(_record(c, solvents), c.ra)[:-2] < mine]
+        return list(ranked)
+    safer = (c for c in ranked if c.better and solvency.safety_key(_record(c, solvents), c.ra)[:-2] < mine)
+    return list(islice(safer, limit))
+
+
+def safety_prefixes(solvents: dict) -> dict:
+    """Each record's place in the safety ordering, Ra and id left out (``solvency.safety_key``)."""
+    return {key: solvency.safety_key(s, 0.0)[:-2] for key, s in solvents.items()}
 
 
 def catalog_solvents(derived) -> dict[str, solvency.Solvent]:
@@ -186,11 +201,12 @@ def sphere_matches(resin, derived, solvents: dict | None = None) -> list[SphereM
 def solvency_relations(derived) -> Relations:
     subs, matches = {}, {}
     solvents = catalog_solvents(derived)
+    safety = safety_prefixes(solvents)
     for d in derived:
         if d.entry.hansen_sphere is not None:
             matches[d.entry.id] = tuple(sphere_matches(d, derived, solvents))
         elif d.entry.id in solvents:
-            found = substitutes_for(d, derived, solvents=solvents)
+            found = substitutes_for(d, derived, solvents=solvents, safety=safety, limit=SHOWN_SUBSTITUTES)
             if found:
                 subs[d.entry.id] = tuple(found[:SHOWN_SUBSTITUTES])
     return Relations(subs, matches)
