@@ -139,3 +139,30 @@ def test_entry_json_has_every_value_with_provenance(synthetic):
     assert data["forces"]["dominant"] == "hydrogen-bonding"
     assert all("provenance" in v for v in data["values"].values())
     assert {l["relation"] for l in data["links"]} >= {"isomer", "homologue", "near-bp"}
+
+
+@pytest.mark.parametrize("count", [1, 2])
+def test_contrasts_are_the_nearest_in_molar_mass_with_another_force(count, monkeypatch):
+    """The contrast links of every demo molecule against comparing every pair by hand: of the
+    molecules within 10 % in molar mass held together mainly by another force, the nearest
+    ``count`` (ties by id); small counts make the cut-off bite on the demo catalog."""
+    from builder.derive import links as links_module
+    from conftest import DEMO
+
+    monkeypatch.setattr(links_module, "CONTRAST_COUNT", count)
+    catalog, _ = load_catalog(DEMO)
+    derived = derive_catalog(catalog)
+    links = cross_links(derived)
+    ratio = links_module.CONTRAST_MASS_RATIO
+    molecules = [d for d in derived if d.identity is not None and d.identity.fragments == 1]
+    force = {d.entry.id: (d.label("dominant_force").code if d.label("dominant_force") else None) for d in molecules}
+    cut = 0
+    for a in molecules:
+        ma = a.identity.molar_mass
+        by_hand = sorted(
+            (abs(ma - b.identity.molar_mass), b.entry.id) for b in molecules
+            if b is not a and force[a.entry.id] and force[b.entry.id] and force[b.entry.id] != force[a.entry.id]
+            and abs(ma - b.identity.molar_mass) <= ratio * max(ma, b.identity.molar_mass))
+        assert _targets(links[a.entry.id], "contrast") == {oid for _, oid in by_hand[:count]}, a.entry.id
+        cut += len(by_hand) > count
+    assert cut >= 1  # the cut-off was exercised

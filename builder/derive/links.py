@@ -25,6 +25,9 @@ from builder.core.units import celsius_text
 from builder.derive.entry import Derived
 
 CONTRAST_MASS_RATIO = 0.10
+#: contrast links per entry: the materials nearest in molar mass (within the ratio) that a different
+#: force holds together; a long list teaches nothing more, and it grew with the catalog
+CONTRAST_COUNT = 5
 NEAR_BP_COUNT = 3
 
 #: functional groups that define a structure class (SMARTS, our own selection)
@@ -102,10 +105,10 @@ def _celsius(kelvin: float) -> str:
 def cross_links(derived: tuple[Derived, ...]) -> dict[str, tuple[Link, ...]]:
     """Every entry's links, in a stable order (relation, then target id).
 
-    Only pairs that can be related are looked at (same formula, same structure class, or
-    molar masses within ``CONTRAST_MASS_RATIO``), so the work grows about linearly with the
-    catalog rather than with the square of its size; the links are those of comparing
-    every pair.
+    Only pairs that can be related are looked at (same formula, same structure class), and the
+    contrasts are the ``CONTRAST_COUNT`` nearest in molar mass, so the work grows about linearly
+    with the catalog rather than with the square of its size; the isomer and homologue links are
+    those of comparing every pair.
     """
     links: dict[str, list[Link]] = {d.entry.id: [] for d in derived}
     molecules = [d for d in derived if d.identity is not None and d.identity.fragments == 1]
@@ -125,21 +128,14 @@ def cross_links(derived: tuple[Derived, ...]) -> dict[str, tuple[Link, ...]]:
         by_class.setdefault(structure_class(d.identity.smiles), []).append(d)
     pairs_within(by_formula)
     pairs_within(by_class)
-    by_mass = sorted(molecules, key=lambda d: d.identity.molar_mass)
-    for i, a in enumerate(by_mass):
-        if _force(a) is None:
-            continue
-        for b in by_mass[i + 1:]:
-            if b.identity.molar_mass - a.identity.molar_mass > CONTRAST_MASS_RATIO * b.identity.molar_mass:
-                break
-            if _force(b) is not None and _force(b) != _force(a):
-                candidates.add(tuple(sorted((position[id(a)], position[id(b)]))))
     for i, j in sorted(candidates):
         a, b = molecules[i], molecules[j]
         for x, y in ((a, b), (b, a)):
-            link = _pair_link(x, y)
-            if link:
-                links[x.entry.id].extend(link)
+            links[x.entry.id].extend(_pair_link(x, y))
+    by_mass = sorted(molecules, key=lambda d: (d.identity.molar_mass, d.entry.id))
+    for k, a in enumerate(by_mass):
+        for b in _contrasts(by_mass, k, CONTRAST_COUNT):
+            links[a.entry.id].append(_contrast_link(a, b))
     with_bp = sorted(((_bp(d), d.entry.id, d) for d in derived if _bp(d) is not None), key=lambda t: (t[0], t[1]))
     for k, (bp, _, d) in enumerate(with_bp):
         for _, oid, o in _nearest(with_bp, k, NEAR_BP_COUNT):
@@ -185,14 +181,42 @@ def _pair_link(a: Derived, b: Derived) -> list[Link]:
         more = "more" if n > 0 else "fewer"
         out.append(Link("homologue", b.entry.id, f"same structure class, {abs(n)} CH2 unit{'s' if abs(n) > 1 else ''} "
                                                   f"{more}"))
-    ma, mb = a.identity.molar_mass, b.identity.molar_mass
-    fa_force, fb_force = _force(a), _force(b)
-    if (abs(ma - mb) <= CONTRAST_MASS_RATIO * max(ma, mb) and fa_force and fb_force and fa_force != fb_force):
-        bp_a, bp_b = _bp(a), _bp(b)
-        bps = (f"; boils at {_celsius(bp_b)} against {_celsius(bp_a)}" if bp_a is not None and bp_b is not None else "")
-        out.append(Link("contrast", b.entry.id, f"similar molar mass ({mb:.0f} against {ma:.0f} g/mol) "
-                                                f"but held together mainly by {fb_force}{bps}"))
     return out
+
+
+def _contrasts(by_mass: list, k: int, count: int) -> list:
+    """Up to ``count`` molecules of ``by_mass`` (sorted by molar mass, then id) that differ from
+    item ``k`` in dominant force, within ``CONTRAST_MASS_RATIO`` of its molar mass: the nearest in
+    mass, ties by id."""
+    a = by_mass[k]
+    force = _force(a)
+    if force is None:
+        return []
+    ma = a.identity.molar_mass
+    found = []
+    for step in (-1, 1):  # outwards on each side, so each side's finds come nearest first
+        side: list = []
+        j = k + step
+        while 0 <= j < len(by_mass):
+            b = by_mass[j]
+            mb = b.identity.molar_mass
+            gap = abs(ma - mb)
+            if gap > CONTRAST_MASS_RATIO * max(ma, mb) or (len(side) >= count and gap > side[count - 1][0]):
+                break
+            if _force(b) is not None and _force(b) != force:
+                side.append((gap, b.entry.id, b))
+            j += step
+        found.extend(side)
+    found.sort(key=lambda t: (t[0], t[1]))
+    return [b for _, _, b in found[:count]]
+
+
+def _contrast_link(a: Derived, b: Derived) -> Link:
+    ma, mb = a.identity.molar_mass, b.identity.molar_mass
+    bp_a, bp_b = _bp(a), _bp(b)
+    bps = (f"; boils at {_celsius(bp_b)} against {_celsius(bp_a)}" if bp_a is not None and bp_b is not None else "")
+    return Link("contrast", b.entry.id, f"similar molar mass ({mb:.0f} against {ma:.0f} g/mol) "
+                                        f"but held together mainly by {_force(b)}{bps}")
 
 
 def homologous_series(derived: tuple[Derived, ...], minimum: int = 3) -> list[list[Derived]]:
