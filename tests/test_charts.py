@@ -50,3 +50,24 @@ def test_the_trends_page_links_the_table_of_every_point():
 
     page = (Path(__file__).resolve().parents[1] / "templates" / "trends.html").read_text(encoding="utf-8")
     assert 'id="chart-data"' in page and 'href="#chart-data"' in page
+
+
+def test_every_marker_is_drawn_in_its_colour_measured_or_estimated():
+    """A point is never invisible: the unclassified marker (×, a line marker with no inside) once
+    took the hollow style of estimated points and was drawn with no colour at all."""
+    import warnings
+
+    from matplotlib.colors import to_rgba
+
+    points = [(f"{force} {est}", 50.0 + 10 * i, 350.0 + 5 * i, force, est)
+              for i, (force, est) in enumerate((f, e) for f in charts.FORCE_STYLE for e in (False, True))]
+    alkane = [(m, n_alkane_boiling_point(m)) for m in range(17, 160, 5)]
+    with warnings.catch_warnings():
+        warnings.simplefilter("error")  # matplotlib warns when it drops a marker's colour
+        fig, _ = charts.boiling_vs_mass_figure(points, alkane)
+    collections = [c for c in fig.axes[0].collections if c.get_label() and not c.get_label().startswith("_")]
+    assert len(collections) == 2 * len(charts.FORCE_STYLE)
+    for c in collections:
+        colour = next(style[1] for style in charts.FORCE_STYLE.values() if c.get_label().startswith(style[2]))
+        drawn = [tuple(x) for x in c.get_edgecolor()] + [tuple(x) for x in c.get_facecolor()]
+        assert to_rgba(colour) in drawn, c.get_label()

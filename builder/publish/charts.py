@@ -21,6 +21,7 @@ import matplotlib
 
 matplotlib.use("Agg")
 import matplotlib.pyplot as plt  # noqa: E402
+from matplotlib.markers import MarkerStyle  # noqa: E402
 from matplotlib.transforms import Bbox  # noqa: E402
 
 from builder.core.units import celsius  # noqa: E402
@@ -142,8 +143,11 @@ def boiling_vs_mass_figure(points, alkane_line):
             sub = [p for p in chosen if p[4] == estimated]
             if not sub:
                 continue
-            ax.scatter([p[1] for p in sub], [celsius(p[2]) for p in sub], marker=marker, s=42,
-                       facecolors="none" if estimated else colour, edgecolors=colour, linewidths=1.3,
+            if MarkerStyle(marker).is_filled():  # estimated: hollow
+                paint = {"facecolors": "none" if estimated else colour, "edgecolors": colour, "linewidths": 1.3}
+            else:  # a line marker (×) has no inside to hollow: estimated ones are drawn thinner
+                paint = {"color": colour, "linewidths": 0.7 if estimated else 1.3}
+            ax.scatter([p[1] for p in sub], [celsius(p[2]) for p in sub], marker=marker, s=42, **paint,
                        label=f"{label}{' (estimated bp)' if estimated else ''}", zorder=3)
     ax.set_xlabel("Molar mass (g/mol)")
     ax.set_ylabel("Normal boiling point (°C)")
