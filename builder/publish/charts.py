@@ -104,12 +104,13 @@ def place_labels(fig, ax, items, fontsize: float = 6.5, avoid=()) -> list[str]:
         px, py = ax.transData.transform((x, y))
         taken.add(Bbox.from_extents(px - marker, py - marker, px + marker, py + marker))
     left_off = []
+    probe = ax.annotate("", (0, 0), textcoords="offset points", xytext=(0, 0), fontsize=fontsize,
+                        parse_math=False, ha="left")  # one artist measures every label
     for label, x, y in items:
         px, py = ax.transData.transform((x, y))
-        probe = ax.annotate(visible(label), (x, y), textcoords="offset points", xytext=(0, 0), fontsize=fontsize,
-                            parse_math=False, ha="left")
+        probe.set_text(visible(label))
+        probe.xy = (x, y)
         size = probe.get_window_extent(renderer)
-        probe.remove()
         width, height, rise = size.width, size.height, size.y0 - py
         for dx, dy in _OFFSETS:
             ha = "left" if dx > 0 else "right" if dx < 0 else "center"
@@ -124,6 +125,7 @@ def place_labels(fig, ax, items, fontsize: float = 6.5, avoid=()) -> list[str]:
                 break
         else:
             left_off.append(label)
+    probe.remove()
     return left_off
 
 
