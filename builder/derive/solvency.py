@@ -148,7 +148,7 @@ def substitutes_for(target, derived, max_ra: float = DEFAULT_MAX_RA, blends: boo
     ``safer_only``, only those the ranking puts before the target itself. ``solvents``: the
     ranking records of ``derived`` by id, when the caller has them already (``catalog_solvents``);
     ``safety``: their safety keys without Ra (``safety_prefixes``), likewise; ``limit``: only the
-    first so many of the safer list."""
+    first so many."""
     solvents = catalog_solvents(derived) if solvents is None else solvents
     me = solvents.get(target.entry.id)
     if me is None:
@@ -161,10 +161,9 @@ def substitutes_for(target, derived, max_ra: float = DEFAULT_MAX_RA, blends: boo
         # (blend_record takes the worse of the two on every criterion): the others can be left out first
         others = [s for s in others if safety[s.id] < mine]
     ranked = solvency.iter_substitutes(me, others, max_ra, blends=blends)
-    if not safer_only:
-        return list(ranked)
-    safer = (c for c in ranked if c.better and solvency.safety_key(_record(c, solvents), c.ra)[:-2] < mine)
-    return list(islice(safer, limit))
+    if safer_only:
+        ranked = (c for c in ranked if c.better and solvency.safety_key(_record(c, solvents), c.ra)[:-2] < mine)
+    return list(islice(ranked, limit))
 
 
 def safety_prefixes(solvents: dict) -> dict:
@@ -208,5 +207,5 @@ def solvency_relations(derived) -> Relations:
         elif d.entry.id in solvents:
             found = substitutes_for(d, derived, solvents=solvents, safety=safety, limit=SHOWN_SUBSTITUTES)
             if found:
-                subs[d.entry.id] = tuple(found[:SHOWN_SUBSTITUTES])
+                subs[d.entry.id] = tuple(found)
     return Relations(subs, matches)

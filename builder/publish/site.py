@@ -225,7 +225,8 @@ _FORKED: tuple | None = None
 
 
 class _EntryFiles:
-    """Everything needed to write one entry's files: drawing, vapor chart, JSON, datasheet."""
+    """Everything needed to write one entry's files (drawing, vapor chart, JSON, datasheet), and
+    the catalog-wide files as functions of a writer (``wide``), for the tasks of ``_run_tasks``."""
 
     def __init__(self, catalog, by_id, links, parts, entry_keys, base, revision, common, relations, wide=()):
         self.catalog, self.by_id, self.links, self.parts = catalog, by_id, links, parts
