@@ -135,3 +135,84 @@ def polar_bonds(mol: Chem.Mol) -> list[str]:
 def largest_fragment(mol: Chem.Mol) -> Chem.Mol:
     fragments = Chem.GetMolFrags(mol, asMols=True)
     return max(fragments, key=lambda f: (f.GetNumHeavyAtoms(), f.GetNumAtoms()))
+
+
+RING_RELATIONS = ("1,2", "1,3", "1,4", "1,3+")
+"""Ring relations told apart by :func:`ring_cis_trans_pairs`: neighbours in any ring ("1,2");
+ring distance 2 and 3 in a six-membered ring ("1,3", "1,4"), where the chair fixes which
+relation puts both substituents equatorial; ring distance 2 or more in any other ring
+("1,3+")."""
+
+_RING_CONFIGURATION_MAX_SIZE = 8
+"""Largest ring whose faces :func:`ring_cis_trans_pairs` compares (larger rings fold)."""
+
+
+def ring_cis_trans_pairs(mol: Chem.Mol) -> list[tuple[int, int, str, bool]]:
+    """Relative configuration of the specified ring stereocentres that carry one hydrogen.
+
+    Returns ``(i, j, relation, cis)`` for every two such centres that share a ring of at
+    most eight atoms: ``relation`` is one of ``RING_RELATIONS`` (from the ring distance in
+    the smallest shared ring and its size) and ``cis`` is True when their hydrogens lie on the same
+    face, i.e. when their substituents do (a ring-fusion atom's hydrogen stands for the
+    fusion, so cis-decalin is cis).  Read from the chiral tags alone, without coordinates:
+    walking round the ring in one direction, a centre's hydrogen is on the face whose
+    handedness (hydrogen, previous ring atom, next ring atom) it has, so two centres are
+    cis when the handedness agrees.  Mirror images give the same answer; centres whose
+    stereo is unspecified, or without exactly one hydrogen, are left out.
+
+    cis- and trans-1,2-dimethylcyclohexane and trans-1,4-dimethylcyclohexane (common
+    practice):
+
+    >>> [ring_cis_trans_pairs(Chem.MolFromSmiles(s))[0][2:] for s in
+    ...  ("C[C@@H]1CCCC[C@@H]1C", "C[C@@H]1CCCC[C@H]1C", "C[C@H]1CC[C@H](C)CC1")]
+    [('1,2', True), ('1,2', False), ('1,4', False)]
+    """
+    work = Chem.AddHs(mol)
+    centres = []
+    for info in Chem.FindPotentialStereo(work):
+        if info.type != Chem.StereoType.Atom_Tetrahedral or info.specified != Chem.StereoSpecified.Specified:
+            continue
+        atom = work.GetAtomWithIdx(info.centeredOn)
+        if atom.GetDegree() == 4 and atom.GetTotalNumHs(includeNeighbors=True) == 1 and atom.IsInRing():
+            centres.append(info.centeredOn)
+    if len(centres) < 2:
+        return []
+    rings = sorted(work.GetRingInfo().AtomRings(), key=len)
+    pairs = []
+    for a, first in enumerate(centres):
+        for second in centres[a + 1:]:
+            ring = next((r for r in rings if first in r and second in r), None)
+            if ring is None or len(ring) > _RING_CONFIGURATION_MAX_SIZE:
+                continue
+            i, j = ring.index(first), ring.index(second)
+            distance = min(abs(i - j), len(ring) - abs(i - j))
+            cis = _ring_face(work, ring, i) == _ring_face(work, ring, j)
+            relation = "1,2" if distance == 1 else ("1,3" if distance == 2 else "1,4") if len(ring) == 6 else "1,3+"
+            pairs.append((min(first, second), max(first, second), relation, cis))
+    return pairs
+
+
+def _ring_face(mol: Chem.Mol, ring: tuple[int, ...], position: int) -> int:
+    """+1 or -1: the handedness of (hydrogen, previous, next ring atom) at ``ring[position]``."""
+    centre = mol.GetAtomWithIdx(ring[position])
+    before, after = ring[position - 1], ring[(position + 1) % len(ring)]
+    hydrogen = next(n.GetIdx() for n in centre.GetNeighbors() if n.GetAtomicNum() == 1)
+    order = [bond.GetOtherAtomIdx(centre.GetIdx()) for bond in centre.GetBonds()]
+    rest = [n for n in order if n not in (hydrogen, before, after)]
+    wanted = [order.index(n) for n in (hydrogen, before, after, *rest)]
+    inversions = sum(1 for x in range(4) for y in range(x + 1, 4) if wanted[x] > wanted[y])
+    sign = 1 if centre.GetChiralTag() == Chem.ChiralType.CHI_TETRAHEDRAL_CCW else -1
+    return sign if inversions % 2 == 0 else -sign
+
+
+def ring_cis_trans_counts(mol: Chem.Mol) -> list[float]:
+    """Numbers of cis and of trans centre pairs per ring relation (:func:`ring_cis_trans_pairs`),
+    in the order of ``RING_RELATIONS``, cis before trans.
+
+    >>> ring_cis_trans_counts(Chem.MolFromSmiles("C1CC[C@H]2CCCC[C@@H]2C1"))  # trans-decalin
+    [0.0, 1.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0]
+    """
+    counts = [0.0] * (2 * len(RING_RELATIONS))
+    for _, _, relation, cis in ring_cis_trans_pairs(mol):
+        counts[2 * RING_RELATIONS.index(relation) + (0 if cis else 1)] += 1.0
+    return counts

@@ -154,15 +154,169 @@ def test_stereoisomers_come_out_in_the_measured_order(higher, lower, cas_higher,
 
 @pytest.mark.slow
 def test_stereo_pair_order_over_the_crc_table():
-    # Stereoisomer pairs (same connectivity, CRC Tb differing by >= 5 K, chemicals 1.5.2).
-    # Measured with the shipped model: 10 of 20 in the right order, 6 of 10 where both
-    # SMILES specify all stereo (misses: diethyl maleate/fumarate by 0.5 K, 1,3-dichloro-
-    # propene, and two dimethylcyclohexanes, whose ring stereo the 2D features cannot
-    # see). Before the stereo features: 0 of 20 (every pair got equal estimates).
+    # cis/trans and E/Z pairs (same connectivity, a stereo double bond or two stereocentres in
+    # one ring, CRC Tb differing by >= 5 K, chemicals 1.5.2; structures after the name-to-stereo
+    # repair). Measured with the shipped model: 24 of 26 in the right order, 24 of the 25 where
+    # both SMILES specify all stereo; the 4 held-out pairs all right (the rest are training
+    # rows). Misses: 1,3-dichloropropene (trans boils 7 K higher; estimates 0.5 K apart the
+    # other way) and 1,3-dichloro-2-butene (the cis row's trisubstituted bond stays
+    # unspecified: its name is ambiguous). Before the ring features, the stereo correction
+    # and the repair: 10 of 20 (old rule, which also counted a racemate against one
+    # enantiomer); before any stereo feature: 0 of 20.
     pairs = validation()["stereo_pairs"]
-    assert pairs["n"] >= 15
-    assert pairs["right_order"] >= 0.45 * pairs["n"]
-    assert pairs["right_order_specified"] >= 0.5 * pairs["n_specified"]
+    assert pairs["n"] >= 20
+    assert pairs["right_order"] >= 0.9 * pairs["n"]
+    assert pairs["right_order_specified"] >= 0.9 * pairs["n_specified"]
+    assert pairs["right_order_held_out"] == pairs["n_held_out"] >= 3
+
+
+@lru_cache(maxsize=1)
+def crc_rows():
+    """(CAS, name, SMILES as chemicals gives it) of the CRC organic rows with a single cis/trans
+    in the name, no alpha/beta locants and no (E)/(Z), whose SMILES specify every stereo element."""
+    import re
+
+    from chemicals.identifiers import search_chemical
+    from chemicals.phase_change import Tb_sources
+    from rdkit import Chem, RDLogger
+
+    RDLogger.DisableLog("rdApp.*")
+    rows = []
+    for cas, row in Tb_sources["CRC_ORG"].dropna(subset=["Tb"]).iterrows():
+        name = str(row["Name"])
+        words = re.findall(r"(?<![A-Za-z])(cis|trans)(?![A-Za-z])", name, re.IGNORECASE)
+        if len(words) != 1 or re.search(r"[0-9][αβ]|\((E|Z)\)", name):
+            continue
+        try:
+            smiles = search_chemical(cas).smiles
+        except ValueError:
+            continue
+        mol = Chem.MolFromSmiles(smiles) if smiles else None
+        found = list(Chem.FindPotentialStereo(mol)) if mol is not None else []
+        if found and all(i.specified == Chem.StereoSpecified.Specified for i in found):
+            rows.append((cas, name, smiles, words[0].lower() == "cis"))
+    return rows
+
+
+@pytest.mark.slow
+def test_ring_relative_configuration_agrees_with_crc_names():
+    # The chiral-tag reading behind the ring features and the name-to-stereo repair, against
+    # the CRC names of rows whose SMILES (chemicals 1.5.2) already specify both ring centres.
+    # Measured: 26 of 27 agree; the exception, trans-octahydro-2H-quinolizine-1-methanol,
+    # names the ring fusion at nitrogen, not the two C-H centres.
+    from rdkit import Chem
+
+    from builder.chem.features import ring_cis_trans_pairs
+
+    checked = agree = 0
+    for _, _, smiles, cis in crc_rows():
+        mol = Chem.MolFromSmiles(smiles)
+        centres = [i for i in Chem.FindPotentialStereo(mol) if i.type == Chem.StereoType.Atom_Tetrahedral]
+        pairs = ring_cis_trans_pairs(mol)
+        if len(pairs) == 1 and len(centres) == 2 and len(centres) == len(Chem.FindPotentialStereo(mol)):
+            checked += 1
+            agree += pairs[0][3] == cis
+    assert checked >= 20
+    assert agree >= 0.95 * checked, (agree, checked)
+
+
+@pytest.mark.slow
+def test_double_bond_cis_is_z_for_crc_rows():
+    # The rule the repair uses for 1,2-disubstituted double bonds (cis = Z), against CRC rows
+    # whose SMILES specify the bond. Measured: 69 of 71 agree; the two others (cis-5-decene,
+    # cis-1,2-di-tert-butylethene) carry an E bond in chemicals' SMILES against their names.
+    from rdkit import Chem
+
+    from builder.chem.boiling import double_bond_configurations
+    from builder.fitting.boiling import _disubstituted
+
+    checked = agree = 0
+    for _, _, smiles, cis in crc_rows():
+        mol = Chem.MolFromSmiles(smiles)
+        found = list(Chem.FindPotentialStereo(mol))
+        if len(found) == 1 and found[0].type == Chem.StereoType.Bond_Double and _disubstituted(mol, found[0].centeredOn):
+            checked += 1
+            agree += (double_bond_configurations(mol)[0] == 1.0) == cis
+    assert checked >= 50
+    assert agree >= 0.95 * checked, (agree, checked)
+
+
+def _hydrogens_on_one_face(smiles: str) -> bool:
+    """Embed ``smiles`` in 3D (fixed seed) and say whether the hydrogens of its two ring
+    stereocentres lie on one side of their ring's mean plane (independent of the chiral-tag
+    reading)."""
+    import numpy as np
+    from rdkit import Chem
+    from rdkit.Chem import AllChem
+
+    mol = Chem.AddHs(Chem.MolFromSmiles(smiles))
+    assert AllChem.EmbedMolecule(mol, randomSeed=7) == 0
+    pos = mol.GetConformer().GetPositions()
+    centres = [a.GetIdx() for a in mol.GetAtoms() if a.GetChiralTag() != Chem.ChiralType.CHI_UNSPECIFIED]
+    ring = next(r for r in sorted(mol.GetRingInfo().AtomRings(), key=len) if set(centres) <= set(r))
+    points = pos[list(ring)]
+    normal = np.linalg.svd(points - points.mean(0))[2][2]
+    sides = []
+    for c in centres:
+        h = next(n.GetIdx() for n in mol.GetAtomWithIdx(c).GetNeighbors() if n.GetAtomicNum() == 1)
+        sides.append(np.sign((pos[h] - pos[c]) @ normal))
+    return len(set(sides)) == 1
+
+
+@pytest.mark.parametrize(
+    ("cas", "cis"),
+    [("493-01-6", True), ("822-50-4", False), ("930-89-2", True), ("2402-06-4", False), ("930-18-7", True)],
+    ids=["cis-decalin", "trans-1,2-dimethylcyclopentane", "cis-1-ethyl-2-methylcyclopentane",
+         "trans-1,2-dimethylcyclopropane", "cis-1,2-dimethylcyclopropane"],
+)
+def test_name_to_stereo_repair_of_ring_rows(cas, cis):
+    # CRC rows (chemicals 1.5.2) whose SMILES leave the ring stereo (partly) out while the name
+    # states it; the repaired structure is checked on a 3D embedding, and differs from the
+    # other isomer's row where the table has one.
+    from chemicals.identifiers import search_chemical
+    from rdkit import Chem
+
+    from builder.chem.structure3d import unspecified_stereo
+    from builder.fitting.boiling import name_stereo
+
+    records = {r.cas: r for r in records_by_cas()}
+    original = search_chemical(cas).smiles
+    assert unspecified_stereo(Chem.MolFromSmiles(original))
+    record = records[cas]
+    assert record.stereo_from_name and record.smiles == name_stereo(record.name, original)
+    assert not unspecified_stereo(Chem.MolFromSmiles(record.smiles))
+    assert _hydrogens_on_one_face(record.smiles) is cis
+    others = [r for r in records.values() if r.inchikey[:14] == record.inchikey[:14] and r.cas != cas]
+    assert all(r.inchikey != record.inchikey for r in others)
+
+
+def test_name_to_stereo_repair_of_double_bonds_and_what_it_skips():
+    # CRC names (chemicals 1.5.2): cis-1-chloropropene is Z, trans-1-propenylbenzene E,
+    # (E)-methyl 2-methyl-2-butenoate E by CIP; cis-1,3-dichloro-2-butene (trisubstituted:
+    # which chain cis refers to is a naming choice) and 1-phenyl-2-propylamine (one centre)
+    # are left as they are.
+    from rdkit import Chem
+
+    from builder.chem.boiling import double_bond_configurations
+    from builder.fitting.boiling import name_stereo
+
+    z_e = {
+        ("cis-1-Chloropropene", "CC=CCl"): (1.0, 0.0),
+        ("trans-1-Propenylbenzene", "CC=CC1=CC=CC=C1"): (0.0, 1.0),
+        ("Methyl 2-methyl-2-butenoate, (E)-", "CC=C(C)C(=O)OC"): (0.0, 1.0),
+    }
+    for (name, smiles), expected in z_e.items():
+        assert double_bond_configurations(Chem.MolFromSmiles(name_stereo(name, smiles))) == expected, name
+    assert name_stereo("cis-1,3-Dichloro-2-butene", "CC(=CCCl)Cl") is None
+    assert name_stereo("1-Phenyl-2-propylamine, (±)-", "CC(CC1=CC=CC=C1)N") is None
+    assert name_stereo("cis-1,2-Dichloroethene", "Cl/C=C\\Cl") is None  # given stereo is kept
+
+
+@lru_cache(maxsize=1)
+def records_by_cas():
+    from builder.fitting.boiling import load_records
+
+    return tuple(load_records())
 
 
 def test_alcohol_above_ether_of_same_formula():
