@@ -183,19 +183,23 @@ def _hazard_source(d: Derived) -> list[Diagnostic]:
     return []
 
 
-def _duplicates(catalog: Catalog, named: set[str] | None = None) -> list[Diagnostic]:
+def _duplicates(catalog: Catalog, named: set[str] | None = None, known: dict | None = None) -> list[Diagnostic]:
     """Same InChIKey twice: an error at the later entry's ``smiles`` line (by id).  When only the
     files ``named`` (paths) are checked and the later entry is not one of them, the error stands at
-    the earlier, named entry instead, so a per-file check lets through nothing the build rejects."""
+    the earlier, named entry instead, so a per-file check lets through nothing the build rejects.
+    ``known``: InChIKeys already worked out while deriving, by (entry id, SMILES); the rest are computed."""
+    known = known or {}
     out = []
     first: dict[str, Entry] = {}
     for e in catalog.entries:  # sorted by id: the later entry gets the error
         if not e.smiles or e.type != "substance":
             continue
-        try:
-            key = identify(e.smiles).inchikey
-        except ValueError:
-            continue
+        key = known.get((e.id, e.smiles))
+        if key is None:
+            try:
+                key = identify(e.smiles).inchikey
+            except ValueError:
+                continue
         if not key:
             continue
         if key in first:
@@ -269,7 +273,9 @@ def check_catalog(catalog: Catalog, derived, named: set[str] | None = None, othe
     out: list[Diagnostic] = []
     for d in derived:
         out += _temperatures(d) + _density(d) + _identity(d) + _vapor_pressure(d) + _hazard_source(d)
-    out += _duplicates(catalog, named) + _uncited(catalog)
+    # the InChIKeys derive_entry already worked out (identify(entry.smiles)), for the same SMILES
+    known = {(d.entry.id, d.entry.smiles): d.identity.inchikey for d in derived if d.identity is not None}
+    out += _duplicates(catalog, named, known) + _uncited(catalog)
     # store compatibility and limits (builder/review/storecheck.py); ``others``: derived store-mates
     # of the checked entries that take part without being checked themselves
     out += check_stores(catalog, list(derived) + list(others), named)
