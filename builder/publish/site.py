@@ -79,7 +79,7 @@ def _catalog_charts(derived, tasks: list, base: str) -> list:
     top = max(min(max(masses) * 1.1, 366.0), 30.0)  # the n-alkane table starts at methane (16 g/mol)
     alkane = [(m, n_alkane_boiling_point(m)) for m in [16.05 + i * (top - 16.05) / 60 for i in range(61)]]
     tasks.append(lambda w: w.made("charts/boiling-vs-mass.svg", key_of(base, "chart", repr(points), repr(alkane)),
-                                  lambda: charts.boiling_vs_mass_svg(points, alkane)))
+                                  lambda: svgchart.boiling_vs_mass_svg(points, alkane)))
     series_charts = []
     for i, series in enumerate(homologous_series(derived)):
         pts = [(d.entry.name, formula_counts(d.identity.formula)[0]["C"], d.get("boiling_point").value)
@@ -87,7 +87,7 @@ def _catalog_charts(derived, tasks: list, base: str) -> list:
         title = " → ".join(d.entry.name for d in series)
         name = f"series-{i + 1}.svg"
         tasks.append(lambda w, name=name, title=title, pts=pts: w.made(
-            f"charts/{name}", key_of(base, "series", title, repr(pts)), lambda: charts.series_svg(title, pts)))
+            f"charts/{name}", key_of(base, "series", title, repr(pts)), lambda: svgchart.series_svg(title, pts)))
         series_charts.append((name, title, series))
     return series_charts
 
