@@ -233,7 +233,7 @@ def sources_path(catalog: Catalog) -> str:
     return f"{catalog.root}/sources.yaml"  # as the loader shows it
 
 
-def whole_catalog(entries_dir: Path, named: Catalog) -> Catalog:
+def whole_catalog(entries_dir: Path, named: Catalog, cache=None) -> Catalog:
     """``named`` (a catalog of some files) plus every other entry of ``entries_dir`` that loads.
 
     For the cross-entry checks when only some files are checked: the other files' own
@@ -244,14 +244,14 @@ def whole_catalog(entries_dir: Path, named: Catalog) -> Catalog:
     entries = {e.id: e for e in named.entries}
     named_files = {Path(e.path).resolve() for e in named.entries}
     others = [p for p in entry_files(Path(entries_dir)) if p.stem not in entries and p.resolve() not in named_files]
-    entries.update(read_entries(others, named.sources, named.locations)[0])
+    entries.update(read_entries(others, named.sources, named.locations, cache=cache)[0])
     return Catalog(tuple(entries[k] for k in sorted(entries)), named.sources, named.locations, named.root)
 
 
-def check_files(entries_dir: Path, named: Catalog, derived) -> list[Diagnostic]:
+def check_files(entries_dir: Path, named: Catalog, derived, cache=None) -> list[Diagnostic]:
     """Plausibility diagnostics for the files of ``named`` (and sources.yaml), cross-checked
     against the whole entries folder."""
-    whole = whole_catalog(entries_dir, named)
+    whole = whole_catalog(entries_dir, named, cache)
     paths = {e.path for e in named.entries}
     shown = paths | {sources_path(named), locations_path(named)}
     # the store checks need the storage groups of every material sharing a store with a checked one
