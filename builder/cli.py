@@ -129,7 +129,8 @@ def cmd_check(args) -> int:
         if missing:
             print(f"cohesion check: no such file: {missing[0]}", file=sys.stderr)
             return EXIT_USAGE
-    catalog, diagnostics = load_catalog(Path(args.entries), only=files)
+    cache = _cache_for(args)
+    catalog, diagnostics = load_catalog(Path(args.entries), only=files, cache=cache)
     if catalog is not None:
         from builder.review.plausibility import check_catalog, check_files
 
@@ -138,9 +139,9 @@ def cmd_check(args) -> int:
         neighbours = ()
         if files:  # a checked mixture is derived from its components, checked or not
             named = {e.id for e in catalog.entries}
-            neighbours = tuple(e for e in whole_catalog(Path(args.entries), catalog).entries if e.id not in named)
-        derived = derive_catalog(catalog, jobs=args.jobs, cache=_cache_for(args), neighbours=neighbours)
-        plausible = check_files(Path(args.entries), catalog, derived) if files else check_catalog(catalog, derived)
+            neighbours = tuple(e for e in whole_catalog(Path(args.entries), catalog, cache).entries if e.id not in named)
+        derived = derive_catalog(catalog, jobs=args.jobs, cache=cache, neighbours=neighbours)
+        plausible = check_files(Path(args.entries), catalog, derived, cache) if files else check_catalog(catalog, derived)
         diagnostics = sorted(diagnostics + [f for d in derived for f in d.findings] + plausible)
     _print_diagnostics(diagnostics)
     n_err = len(errors(diagnostics))

@@ -87,7 +87,7 @@ def build(entries_dir: Path, out: Path, waiting_message=None, jobs: int | None =
     from builder.review.plausibility import check_catalog
 
     progress("load", 0, 1)
-    catalog, diagnostics = load_catalog(entries_dir)
+    catalog, diagnostics = load_catalog(entries_dir, cache=cache)
     if catalog is None:
         raise CatalogError(diagnostics)
     derived = derive_catalog(catalog, jobs=jobs, cache=cache, progress=lambda d, t: progress("derive", d, t))

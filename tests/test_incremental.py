@@ -192,3 +192,25 @@ def test_a_defect_while_deriving_is_an_error_on_the_entry_not_a_traceback(make_e
     err = capsys.readouterr().err
     assert "ethanol.yaml:3:9: error: the builder failed while deriving this entry (ZeroDivisionError" in err
     assert "Traceback" not in err and not (tmp_path / "site").exists()
+
+
+def test_loaded_entries_come_from_the_cache_until_their_inputs_change(make_entries, cached):
+    """A file's validated entry is reused while its text, the sources, the stores and the code are
+    the same; what the cache gives equals what loading afresh gives."""
+    from builder.load.entries import load_catalog
+
+    folder = make_entries({"ethanol.yaml": ETHANOL, "toluene.yaml": TOLUENE})
+    fresh = load_catalog(folder)
+    cache = Cache(cached)
+    assert load_catalog(folder, cache=cache) == fresh and (cache.hits, cache.misses) == (0, 2)
+    assert load_catalog(folder, cache=cache) == fresh and (cache.hits, cache.misses) == (2, 2)
+    (folder / "toluene.yaml").write_text(TOLUENE.replace("T-2", "T-3"), encoding="utf-8")
+    edited = load_catalog(folder, cache=cache)
+    assert (cache.hits, cache.misses) == (3, 3)
+    assert edited == load_catalog(folder) and edited != fresh
+    sources = folder / "sources.yaml"
+    sources.write_text(sources.read_text(encoding="utf-8").replace("95th", "96th"), encoding="utf-8")
+    assert load_catalog(folder, cache=cache) == load_catalog(folder) and (cache.hits, cache.misses) == (3, 5)
+    for damaged in (cached / "load").rglob("*.pickle"):
+        damaged.write_bytes(b"not a pickle")
+    assert load_catalog(folder, cache=cache) == load_catalog(folder) and cache.misses == 7

@@ -215,16 +215,37 @@ class Conflict:
 def store_conflicts(members: Iterable[tuple[str, Assignment]], table: StorageTable | None = None,
                     worst_only: bool = False) -> tuple[Conflict, ...]:
     """Every pair of ``members`` (id, assignment) of one store that is not compatible, sorted:
-    keep-separate first, then by ids.  ``worst_only``: only the keep-separate pairs."""
+    keep-separate first, then by ids.  ``worst_only``: only the keep-separate pairs.
+
+    The outcome depends only on the two groups and class sets, so members are gathered by those
+    and each pair of kinds is looked up once; only the pairs of kinds that conflict are expanded
+    member by member (a store of a thousand materials has a few dozen kinds).
+    """
     table = table or default_table()
-    members = sorted(members, key=lambda m: m[0])
+    kinds: dict[tuple[str, tuple[str, ...]], list[tuple[str, Assignment]]] = {}
+    for member in sorted(members, key=lambda m: m[0]):
+        kinds.setdefault((member[1].group, member[1].classes), []).append(member)
+    keys = sorted(kinds)
     out = []
-    for i, (a_id, a) in enumerate(members):
-        for b_id, b in members[i + 1:]:
-            outcome, reason = compatibility(a, b, table)
-            if outcome == "compatible" or (worst_only and outcome != "keep-separate"):
+    for i, ka in enumerate(keys):
+        for kb in keys[i:]:
+            # the first of a pair is the smaller id, so the reason may be worded either way round
+            ways = {}
+            for first, second in ((ka, kb), (kb, ka)):
+                outcome, reason = compatibility(kinds[first][0][1], kinds[second][0][1], table)
+                if not (outcome == "compatible" or (worst_only and outcome != "keep-separate")):
+                    ways[first, second] = (outcome, reason)
+            if not ways:
                 continue
-            out.append(Conflict(a_id, b_id, outcome, reason))
+            if ka == kb:
+                group = kinds[ka]
+                pairs = ((a, b) for j, a in enumerate(group) for b in group[j + 1:])
+            else:
+                pairs = ((a, b) if a[0] < b[0] else (b, a) for a in kinds[ka] for b in kinds[kb])
+            for (a_id, a), (b_id, b) in pairs:
+                found = ways.get(((a.group, a.classes), (b.group, b.classes)))
+                if found is not None:
+                    out.append(Conflict(a_id, b_id, *found))
     out.sort(key=lambda c: (-OUTCOMES.index(c.outcome), c.first, c.second))
     return tuple(out)
 

@@ -18,8 +18,7 @@ from __future__ import annotations
 import math
 import re
 from dataclasses import dataclass
-
-import pint
+from functools import lru_cache
 
 _EXPONENT = re.compile(r"(?<=[A-Za-z\u00b5])([23])(?![\d.])")
 
@@ -29,7 +28,13 @@ def _superscripts(text: str) -> str:
     return _EXPONENT.sub(r"**\1", text)
 
 
-UREG = pint.UnitRegistry(autoconvert_offset_to_baseunit=True, preprocessors=[_superscripts])
+@lru_cache(maxsize=1)
+def registry():
+    """pint's unit registry, made on first use (making it takes about 0.3 s, and a build whose
+    entries all come from the cache, or that only formats values, never needs it)."""
+    import pint
+
+    return pint.UnitRegistry(autoconvert_offset_to_baseunit=True, preprocessors=[_superscripts])
 
 
 @dataclass(frozen=True)
@@ -42,7 +47,7 @@ class Dimension:
 
     @property
     def dimensionality(self):
-        return UREG.Quantity(1.0, self.si_unit).dimensionality
+        return registry().Quantity(1.0, self.si_unit).dimensionality
 
 
 DIMENSIONS: dict[str, Dimension] = {
@@ -144,8 +149,8 @@ def parse_quantity(text: object, dimension: str) -> tuple[float, float | None]:
         raise UnitProblem(f"cannot read the uncertainty in {_shown(text)}",
                           hint="write '<number> ± <number> <unit>', e.g. '78.4 ± 0.2 °C'")
     try:
-        unit = UREG.Unit(unit_text) if unit_text != "dimensionless" else UREG.dimensionless
-        dimensionality = UREG.Quantity(1.0, unit).dimensionality
+        unit = registry().Unit(unit_text) if unit_text != "dimensionless" else registry().dimensionless
+        dimensionality = registry().Quantity(1.0, unit).dimensionality
     except Exception as exc:  # pint raises many kinds (syntax, arithmetic, offset units) for odd unit text
         raise UnitProblem(f"unknown unit {_shown(unit_text)}",
                           hint=f"expected a {dim.name}, e.g. '{dim.example}'") from exc
@@ -158,7 +163,7 @@ def parse_quantity(text: object, dimension: str) -> tuple[float, float | None]:
         raise UnitProblem(f"{_shown(unit_text)} is a temperature difference, not a temperature",
                           hint="write a temperature such as '78.4 °C' or '351.6 K'")
     try:
-        value = UREG.Quantity(_number(match["num"]), unit).to(dim.si_unit).magnitude
+        value = registry().Quantity(_number(match["num"]), unit).to(dim.si_unit).magnitude
     except Exception as exc:  # e.g. an offset unit inside a product ("°C·m/m")
         raise UnitProblem(f"cannot convert {_shown(text)} to {dim.si_unit}",
                           hint=f"expected a {dim.name}, e.g. '{dim.example}'") from exc
@@ -170,9 +175,9 @@ def parse_quantity(text: object, dimension: str) -> tuple[float, float | None]:
             raise UnitProblem(f"the uncertainty in {_shown(text)} is negative",
                               hint="write it without a sign, e.g. '78.4 ± 0.2 °C'")
         # An uncertainty is a difference: convert it without the offset of °C or °F.
-        delta = UREG.Quantity(_number(match["unc"]), unit)
+        delta = registry().Quantity(_number(match["unc"]), unit)
         if dimension == "temperature":
-            unc = abs(_number(match["unc"])) * UREG.Quantity(1.0, _delta_unit(unit)).to("K").magnitude
+            unc = abs(_number(match["unc"])) * registry().Quantity(1.0, _delta_unit(unit)).to("K").magnitude
         else:
             unc = abs(delta.to(dim.si_unit).magnitude)
         if not math.isfinite(unc):
@@ -187,7 +192,7 @@ def _delta_unit(unit) -> str:
 
 def to_unit(si_value: float, si_unit: str, unit: str) -> float:
     """Express an SI float in ``unit`` (offset units handled)."""
-    return float(UREG.Quantity(si_value, si_unit).to(unit).magnitude)
+    return float(registry().Quantity(si_value, si_unit).to(unit).magnitude)
 
 
 #: 0 °C in kelvin (exact).  builder/chem keeps its own copy in chem/constants.py (it imports

@@ -17,6 +17,7 @@ from pathlib import Path
 
 from builder.chem.identity import parse_smiles
 from builder.chem.storage import default_table
+from builder.core.cache import code_version, key_of, settings_key
 from builder.core.diagnostics import Diagnostic, errors
 from builder.core.model import (
     PROVENANCE_OF_SOURCE,
@@ -709,12 +710,16 @@ def read_bibliography(entries_dir: Path, root: str) -> tuple[dict, dict, list[Di
     return sources, locations, diagnostics + more
 
 
-def read_entries(files, sources: dict, locations: dict, shown=shown_path, root: Path | None = None
-                 ) -> tuple[dict[str, Entry], list[Diagnostic], set[str]]:
+def read_entries(files, sources: dict, locations: dict, shown=shown_path, root: Path | None = None,
+                 cache=None) -> tuple[dict[str, Entry], list[Diagnostic], set[str]]:
     """Load each entry file: the entries that load (by id), every diagnostic, and the ids that did not.
 
-    A symbolic link may lead only inside ``root`` (by default the folder of each file).
+    A symbolic link may lead only inside ``root`` (by default the folder of each file). With a
+    ``cache`` (``builder.core.cache.Cache``), each file's result is kept under the key of exactly
+    what ``load_entry`` reads: its path as shown, its text, the sources and stores, the code.
     """
+    context = key_of("load", code_version(), settings_key(), repr(sorted(sources.items())),
+                     repr(sorted(locations.items()))) if cache is not None and cache.root is not None else None
     entries: dict[str, Entry] = {}
     diagnostics: list[Diagnostic] = []
     failed: set[str] = set()
@@ -734,7 +739,7 @@ def read_entries(files, sources: dict, locations: dict, shown=shown_path, root: 
         text, probs = _read_file(path, where, Path(path).parent if root is None else root)
         entry = None
         if text is not None:
-            entry, probs = load_entry(where, text, sources, locations)
+            entry, probs = _load_cached(where, text, sources, locations, cache, context)
         if path.stem.endswith(fmt.CHART_SUFFIX) and path.stem[:-len(fmt.CHART_SUFFIX)] in stems:
             probs = [*probs, Diagnostic(where, 1, 1, "error", f"entry id '{path.stem}' would overwrite the "
                                         f"vapor-pressure chart of entry '{path.stem[:-len(fmt.CHART_SUFFIX)]}'",
@@ -748,10 +753,26 @@ def read_entries(files, sources: dict, locations: dict, shown=shown_path, root: 
     return entries, diagnostics, failed
 
 
-def load_catalog(entries_dir: Path, only: list[Path] | None = None) -> tuple[Catalog | None, list[Diagnostic]]:
+def _load_cached(where: str, text: str, sources: dict, locations: dict, cache, context: str | None):
+    """``load_entry``, or its result for the same inputs from ``cache`` (a pure function of them)."""
+    if context is None:
+        return load_entry(where, text, sources, locations)
+    key = key_of(context, where, text)
+    found = cache.get("load", key)
+    if isinstance(found, tuple) and len(found) == 2 and (found[0] is None or isinstance(found[0], Entry)):
+        return found[0], list(found[1])
+    entry, probs = load_entry(where, text, sources, locations)
+    cache.put("load", key, (entry, tuple(probs)))
+    return entry, probs
+
+
+def load_catalog(entries_dir: Path, only: list[Path] | None = None, cache=None
+                 ) -> tuple[Catalog | None, list[Diagnostic]]:
     """Read ``entries_dir`` (or just the files ``only``) and validate everything.
 
     Returns ``(catalog, diagnostics)``; ``catalog`` is None when any diagnostic is an error.
+    ``cache``: each file's validated entry is reused while its text, the sources, the stores and
+    the code are unchanged (``read_entries``).
     """
     entries_dir = Path(entries_dir)
     root = shown_path(entries_dir)
@@ -759,10 +780,10 @@ def load_catalog(entries_dir: Path, only: list[Path] | None = None) -> tuple[Cat
         return None, [Diagnostic(root, 1, 1, "error", "entries folder not found")]
     sources, locations, diagnostics = read_bibliography(entries_dir, root)
     files = sorted(Path(p) for p in only) if only else entry_files(entries_dir)
-    entries, more, failed = read_entries(files, sources, locations, root=entries_dir)
+    entries, more, failed = read_entries(files, sources, locations, root=entries_dir, cache=cache)
     if only:  # the files' neighbours take part in the checks across entries (their own problems are not shown)
         others = [p for p in entry_files(entries_dir) if p.stem not in entries and p.stem not in failed]
-        neighbours = read_entries(others, sources, locations, root=entries_dir)[0]
+        neighbours = read_entries(others, sources, locations, root=entries_dir, cache=cache)[0]
         more += [d for d in composition_problems({**neighbours, **entries}, {p.stem for p in others})
                  if d.path in {e.path for e in entries.values()}]
     else:

@@ -10,8 +10,9 @@ parsed as matplotlib math (``$...$``), bidi controls shown as ``[U+XXXX]``.
 Point names are placed without overlap and inside the axes (``place_labels``); a name with no
 free place is left off the chart, and the page's table beside each chart lists every point.
 
-Contents: ``boiling_vs_mass_svg``, ``series_svg`` (catalog-wide charts; the per-entry vapor-pressure
-chart is drawn directly as SVG by ``svgchart.py``).
+Contents: ``solvency_map_svg`` and ``txy_svg``. The charts drawn by the hundred (the per-entry
+vapor-pressure chart, the trends page's boiling-point charts) are written directly as SVG by
+``svgchart.py``, about a hundred times faster.
 """
 from __future__ import annotations
 
@@ -21,10 +22,10 @@ import matplotlib
 
 matplotlib.use("Agg")
 import matplotlib.pyplot as plt  # noqa: E402
-from matplotlib.markers import MarkerStyle  # noqa: E402
 from matplotlib.transforms import Bbox  # noqa: E402
 
 from builder.core.units import celsius  # noqa: E402
+from builder.publish.svgchart import FORCE_MARKS  # noqa: E402
 from builder.publish.textsafe import visible  # noqa: E402
 
 plt.rcParams.update({
@@ -36,14 +37,10 @@ plt.rcParams.update({
     "axes.spines.right": False,
 })
 
-#: marker, colour and line style for each intermolecular-force class
-FORCE_STYLE = {
-    "dispersion": ("o", "#0072B2", "London dispersion"),
-    "dipole-dipole": ("^", "#D55E00", "dipole–dipole"),
-    "hydrogen-bonding": ("s", "#009E73", "hydrogen bonding"),
-    "ionic": ("D", "#CC79A7", "ionic"),
-    None: ("x", "#555555", "not classified"),
-}
+#: matplotlib marker, colour and legend words for each intermolecular-force class (the shapes and
+#: colours of the charts written directly, ``svgchart.FORCE_MARKS``)
+_MARKERS = {"circle": "o", "triangle": "^", "square": "s", "diamond": "D", "cross": "x"}
+FORCE_STYLE = {force: (_MARKERS[shape], colour, words) for force, (shape, colour, words) in FORCE_MARKS.items()}
 
 
 def _svg(fig) -> str:
@@ -127,85 +124,6 @@ def place_labels(fig, ax, items, fontsize: float = 6.5, avoid=()) -> list[str]:
             left_off.append(label)
     probe.remove()
     return left_off
-
-
-def boiling_vs_mass_figure(points, alkane_line):
-    """The figure of ``boiling_vs_mass_svg`` and the labels left off it for want of room."""
-    fig, ax = plt.subplots(figsize=(7.0, 4.6))
-    if alkane_line:
-        xs, ys = zip(*alkane_line)
-        ax.plot(xs, [celsius(y) for y in ys], color="#444444", linestyle="--", linewidth=1.0,
-                label="n-alkanes (reference)")
-    for force in FORCE_STYLE:
-        chosen = [p for p in points if p[3] == force]
-        if not chosen:
-            continue
-        marker, colour, label = FORCE_STYLE[force]
-        for estimated in (False, True):
-            sub = [p for p in chosen if p[4] == estimated]
-            if not sub:
-                continue
-            if MarkerStyle(marker).is_filled():  # estimated: hollow
-                paint = {"facecolors": "none" if estimated else colour, "edgecolors": colour, "linewidths": 1.3}
-            else:  # a line marker (×) has no inside to hollow: estimated ones are drawn thinner
-                paint = {"color": colour, "linewidths": 0.7 if estimated else 1.3}
-            ax.scatter([p[1] for p in sub], [celsius(p[2]) for p in sub], marker=marker, s=42, **paint,
-                       label=f"{label}{' (estimated bp)' if estimated else ''}", zorder=3)
-    ax.set_xlabel("Molar mass (g/mol)")
-    ax.set_ylabel("Normal boiling point (°C)")
-    if points:
-        top = max(p[1] for p in points)
-        ax.set_xlim(0, top * 1.12)
-        ax.margins(y=0.08)
-    ax.grid(True, color="#dddddd", linewidth=0.6)
-    legend = ax.legend(loc="upper left", fontsize=7.5, frameon=False)
-    fig.canvas.draw()
-    avoid = [legend.get_window_extent(fig.canvas.get_renderer())]
-    # keep names off the n-alkane line too: a small box at each of its points (display units)
-    line = [ax.transData.transform((m, celsius(tb))) for m, tb in alkane_line]
-    for (x0, y0), (x1, y1) in zip(line, line[1:]):
-        steps = max(1, int(max(abs(x1 - x0), abs(y1 - y0)) / 2.0))  # a box every 2 display units
-        for k in range(steps + 1):
-            px, py = x0 + (x1 - x0) * k / steps, y0 + (y1 - y0) * k / steps
-            avoid.append(Bbox.from_extents(px - 1.0, py - 1.0, px + 1.0, py + 1.0))
-    # lightest first: the crowded low-mass corner gets its places before the sparse heavy end
-    items = sorted(((p[0], p[1], celsius(p[2])) for p in points), key=lambda t: (t[1], t[2], t[0]))
-    left_off = place_labels(fig, ax, items, avoid=avoid)
-    return fig, left_off
-
-
-def boiling_vs_mass_svg(points, alkane_line) -> str:
-    """Boiling point (°C) against molar mass, one marker shape per dominant force; names where
-    there is room for them (``place_labels``), every point in the page's table.
-
-    ``points``: (label, molar_mass, boiling_point_K, force, estimated) tuples;
-    ``alkane_line``: (molar_mass, boiling_point_K) pairs of the n-alkanes for reference.
-    """
-    fig, _ = boiling_vs_mass_figure(points, alkane_line)
-    return _svg(fig)
-
-
-def series_figure(title: str, points):
-    """The figure of ``series_svg`` and the labels left off it."""
-    fig, ax = plt.subplots(figsize=(5.0, 3.4))
-    xs = [p[1] for p in points]
-    ys = [celsius(p[2]) for p in points]
-    ax.plot(xs, ys, marker="o", color="#0072B2", linewidth=1.2)
-    ax.set_xlabel("Carbon atoms")
-    ax.set_ylabel("Normal boiling point (°C)")
-    ax.set_xticks(sorted(set(xs)))
-    ax.set_title(visible(title), fontsize=9, parse_math=False)
-    ax.grid(True, color="#dddddd", linewidth=0.6)
-    # room inside the axes for the names, so none sits on an axis line
-    ax.margins(x=0.25, y=0.2)
-    left_off = place_labels(fig, ax, [(p[0], x, y) for p, x, y in zip(points, xs, ys)], fontsize=7)
-    return fig, left_off
-
-
-def series_svg(title: str, points) -> str:
-    """Boiling point along a homologous series: ``points`` are (label, carbons, boiling_point_K)."""
-    fig, _ = series_figure(title, points)
-    return _svg(fig)
 
 
 def txy_svg(first: str, second: str, xs, bubble_K, dew_K, model: str) -> str:

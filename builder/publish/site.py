@@ -18,7 +18,7 @@ from builder.derive.entry import Derived
 from builder.derive.forces import FORCE_WORDS
 from builder.derive.solvency import params_of, solvency_relations, solvent_of
 from builder.derive.links import Link, cross_links, homologous_series
-from builder.publish import charts, exports, svgchart
+from builder.publish import exports, svgchart
 from builder.publish.revision import Revision
 from builder.publish.stores import store_sheet
 from builder.publish.templating import FLAMMABLE_CATEGORIES, TEMPLATES, Writer, environment, revision_text, txy_path
@@ -79,7 +79,7 @@ def _catalog_charts(derived, tasks: list, base: str) -> list:
     top = max(min(max(masses) * 1.1, 366.0), 30.0)  # the n-alkane table starts at methane (16 g/mol)
     alkane = [(m, n_alkane_boiling_point(m)) for m in [16.05 + i * (top - 16.05) / 60 for i in range(61)]]
     tasks.append(lambda w: w.made("charts/boiling-vs-mass.svg", key_of(base, "chart", repr(points), repr(alkane)),
-                                  lambda: charts.boiling_vs_mass_svg(points, alkane)))
+                                  lambda: svgchart.boiling_vs_mass_svg(points, alkane)))
     series_charts = []
     for i, series in enumerate(homologous_series(derived)):
         pts = [(d.entry.name, formula_counts(d.identity.formula)[0]["C"], d.get("boiling_point").value)
@@ -87,7 +87,7 @@ def _catalog_charts(derived, tasks: list, base: str) -> list:
         title = " → ".join(d.entry.name for d in series)
         name = f"series-{i + 1}.svg"
         tasks.append(lambda w, name=name, title=title, pts=pts: w.made(
-            f"charts/{name}", key_of(base, "series", title, repr(pts)), lambda: charts.series_svg(title, pts)))
+            f"charts/{name}", key_of(base, "series", title, repr(pts)), lambda: svgchart.series_svg(title, pts)))
         series_charts.append((name, title, series))
     return series_charts
 
@@ -151,7 +151,7 @@ def render_site(catalog: Catalog, derived: tuple[Derived, ...], out: Path, diagn
     plotted = repr([(d.entry.id, d.entry.name, p, d.label("dominant_force").code if d.label("dominant_force") else None)
                     for d, p in solvents]) + repr([(d.entry.name, sph) for d, sph in resins])
     wide.append(lambda w: w.made("charts/solvency-map.svg", key_of(base, "solvency-map", plotted),
-                                 lambda: charts.solvency_map_svg(solvents, resins)))
+                                 lambda: _charts().solvency_map_svg(solvents, resins)))
     wide.append(lambda w: w.page("solvency.html", "solvency.html", key=whole, solvents=solvents, spheres=resins,
                                  relations=relations, **common))
     wide.append(lambda w: w.page("sources.html", "sources.html", key=whole, sources_used=by_source, **common))
@@ -213,9 +213,17 @@ def spheres(derived) -> list:
     return [(d, d.entry.hansen_sphere) for d in derived if d.entry.hansen_sphere is not None]
 
 
+def _charts():
+    """The matplotlib charts (the solvency map, T-x-y diagrams), imported only when one is drawn:
+    importing matplotlib takes about half a second, and most incremental builds draw neither."""
+    from builder.publish import charts
+
+    return charts
+
+
 def _txy_chart(d: Derived) -> str:
     rows, (xs, bubble, dew) = d.mixture.rows, d.mixture.txy
-    return charts.txy_svg(rows[0].name, rows[1].name, xs, bubble, dew, d.mixture.activity_model.split(" (")[0])
+    return _charts().txy_svg(rows[0].name, rows[1].name, xs, bubble, dew, d.mixture.activity_model.split(" (")[0])
 
 
 #: entries per task when datasheets are written by several processes

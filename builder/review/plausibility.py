@@ -183,19 +183,23 @@ def _hazard_source(d: Derived) -> list[Diagnostic]:
     return []
 
 
-def _duplicates(catalog: Catalog, named: set[str] | None = None) -> list[Diagnostic]:
+def _duplicates(catalog: Catalog, named: set[str] | None = None, known: dict | None = None) -> list[Diagnostic]:
     """Same InChIKey twice: an error at the later entry's ``smiles`` line (by id).  When only the
     files ``named`` (paths) are checked and the later entry is not one of them, the error stands at
-    the earlier, named entry instead, so a per-file check lets through nothing the build rejects."""
+    the earlier, named entry instead, so a per-file check lets through nothing the build rejects.
+    ``known``: InChIKeys already worked out while deriving, by (entry id, SMILES); the rest are computed."""
+    known = known or {}
     out = []
     first: dict[str, Entry] = {}
     for e in catalog.entries:  # sorted by id: the later entry gets the error
         if not e.smiles or e.type != "substance":
             continue
-        try:
-            key = identify(e.smiles).inchikey
-        except ValueError:
-            continue
+        key = known.get((e.id, e.smiles))
+        if key is None:
+            try:
+                key = identify(e.smiles).inchikey
+            except ValueError:
+                continue
         if not key:
             continue
         if key in first:
@@ -229,7 +233,7 @@ def sources_path(catalog: Catalog) -> str:
     return f"{catalog.root}/sources.yaml"  # as the loader shows it
 
 
-def whole_catalog(entries_dir: Path, named: Catalog) -> Catalog:
+def whole_catalog(entries_dir: Path, named: Catalog, cache=None) -> Catalog:
     """``named`` (a catalog of some files) plus every other entry of ``entries_dir`` that loads.
 
     For the cross-entry checks when only some files are checked: the other files' own
@@ -240,14 +244,14 @@ def whole_catalog(entries_dir: Path, named: Catalog) -> Catalog:
     entries = {e.id: e for e in named.entries}
     named_files = {Path(e.path).resolve() for e in named.entries}
     others = [p for p in entry_files(Path(entries_dir)) if p.stem not in entries and p.resolve() not in named_files]
-    entries.update(read_entries(others, named.sources, named.locations)[0])
+    entries.update(read_entries(others, named.sources, named.locations, cache=cache)[0])
     return Catalog(tuple(entries[k] for k in sorted(entries)), named.sources, named.locations, named.root)
 
 
-def check_files(entries_dir: Path, named: Catalog, derived) -> list[Diagnostic]:
+def check_files(entries_dir: Path, named: Catalog, derived, cache=None) -> list[Diagnostic]:
     """Plausibility diagnostics for the files of ``named`` (and sources.yaml), cross-checked
     against the whole entries folder."""
-    whole = whole_catalog(entries_dir, named)
+    whole = whole_catalog(entries_dir, named, cache)
     paths = {e.path for e in named.entries}
     shown = paths | {sources_path(named), locations_path(named)}
     # the store checks need the storage groups of every material sharing a store with a checked one
@@ -269,7 +273,9 @@ def check_catalog(catalog: Catalog, derived, named: set[str] | None = None, othe
     out: list[Diagnostic] = []
     for d in derived:
         out += _temperatures(d) + _density(d) + _identity(d) + _vapor_pressure(d) + _hazard_source(d)
-    out += _duplicates(catalog, named) + _uncited(catalog)
+    # the InChIKeys derive_entry already worked out (identify(entry.smiles)), for the same SMILES
+    known = {(d.entry.id, d.entry.smiles): d.identity.inchikey for d in derived if d.identity is not None}
+    out += _duplicates(catalog, named, known) + _uncited(catalog)
     # store compatibility and limits (builder/review/storecheck.py); ``others``: derived store-mates
     # of the checked entries that take part without being checked themselves
     out += check_stores(catalog, list(derived) + list(others), named)

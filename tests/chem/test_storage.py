@@ -143,6 +143,31 @@ def test_store_conflicts_sorted_and_grouped():
     assert store_conflicts(members[:2]) == ()
 
 
+def test_store_conflicts_match_every_pair_compared_one_by_one():
+    # store_conflicts looks each pair of (group, classes) kinds up once; compared here with the
+    # plain pairwise reading of the table over the demo catalog's materials put in one store,
+    # each twice under a second id so that kinds hold several members and ids interleave
+    from pathlib import Path
+
+    from builder.derive.catalog import derive_catalog
+    from builder.load.entries import load_catalog
+
+    catalog, _ = load_catalog(Path(__file__).resolve().parents[2] / "entries")
+    derived = [d for d in derive_catalog(catalog) if getattr(d, "storage", None) is not None]
+    members = [(d.entry.id, d.storage) for d in derived] + [(f"{d.entry.id[::-1]}-2", d.storage) for d in derived]
+    assert len({a.group for _, a in members}) >= 4
+    for worst_only in (False, True):
+        expected = []
+        for (a_id, a), (b_id, b) in itertools.combinations(sorted(members, key=lambda m: m[0]), 2):
+            outcome, reason = compatibility(a, b)
+            if outcome == C or (worst_only and outcome != S):
+                continue
+            expected.append((a_id, b_id, outcome, reason))
+        expected.sort(key=lambda c: (-OUTCOMES.index(c[2]), c[0], c[1]))
+        got = [(c.first, c.second, c.outcome, c.reason) for c in store_conflicts(members, worst_only=worst_only)]
+        assert got == expected and expected
+
+
 def test_container_volumes():
     assert container_volume_litres("25 L steel can with bung; 1 L amber glass in the pilot bay") == 26.0
     assert container_volume_litres("4 x 2.5 L glass bottles") == 10.0
