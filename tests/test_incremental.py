@@ -214,3 +214,35 @@ def test_loaded_entries_come_from_the_cache_until_their_inputs_change(make_entri
     for damaged in (cached / "load").rglob("*.pickle"):
         damaged.write_bytes(b"not a pickle")
     assert load_catalog(folder, cache=cache) == load_catalog(folder) and cache.misses == 7
+
+
+def test_solvency_relations_are_reused_until_a_liquids_record_changes(tmp_path, cached):
+    """The substitutes and sphere matches depend only on the liquids' ranking records and the
+    resins' spheres: an edit elsewhere (a solid's note) reuses them; a liquid's flash point does not."""
+    import shutil
+
+    from conftest import DEMO
+
+    from builder.derive.catalog import derive_catalog
+    from builder.derive.solvency import solvency_relations
+    from builder.load.entries import load_catalog
+
+    folder = tmp_path / "entries"
+    shutil.copytree(DEMO, folder)
+    cache = Cache(cached)
+
+    def relations():
+        derived = derive_catalog(load_catalog(folder)[0])
+        return solvency_relations(derived, cache), solvency_relations(derived)
+
+    cached_first, fresh = relations()
+    assert cached_first == fresh and fresh.substitutes and fresh.matches and (cache.hits, cache.misses) == (0, 1)
+    stearic = folder / "stearic-acid.yaml"
+    stearic.write_text(stearic.read_text(encoding="utf-8").replace("notes: >-", "notes: >-\n  Checked again.", 1),
+                       encoding="utf-8")
+    reused, fresh = relations()
+    assert reused == fresh and (cache.hits, cache.misses) == (1, 1)
+    toluene = folder / "toluene.yaml"
+    toluene.write_text(toluene.read_text(encoding="utf-8").replace("value: 4.0 °C", "value: 30.0 °C"), encoding="utf-8")
+    changed, fresh = relations()
+    assert changed == fresh and changed != cached_first and (cache.hits, cache.misses) == (1, 2)

@@ -51,3 +51,22 @@ def test_refused_with_a_hint(text, dimension):
     with pytest.raises(UnitProblem) as info:
         parse_quantity(text, dimension)
     assert info.value.hint
+
+
+def test_units_read_without_pint_give_the_floats_pint_gives(monkeypatch):
+    # the common units are read by a factor and an offset (units._FAST_UNITS); pint itself is the
+    # reference: every value and uncertainty must be the same float, bit for bit
+    import random
+
+    from builder.core import units
+
+    rng = random.Random(7)
+    texts = []
+    for (dimension, unit), _ in units._FAST_UNITS.items():
+        for _ in range(400):
+            x = round(rng.uniform(-250.0, 5000.0), rng.randint(0, 5))
+            u = round(rng.uniform(0.0, 20.0), rng.randint(0, 3))
+            texts += [(f"{x} {unit}", dimension), (f"{x} ± {u} {unit}", dimension), (f"{x}{unit}", dimension)]
+    fast = [units.parse_quantity(t, d) for t, d in texts]
+    monkeypatch.setattr(units, "_FAST_UNITS", {})
+    assert fast == [units.parse_quantity(t, d) for t, d in texts]

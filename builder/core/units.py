@@ -148,6 +148,9 @@ def parse_quantity(text: object, dimension: str) -> tuple[float, float | None]:
     if any(sign in unit_text for sign in ("±", "+/-", "+-")):
         raise UnitProblem(f"cannot read the uncertainty in {_shown(text)}",
                           hint="write '<number> ± <number> <unit>', e.g. '78.4 ± 0.2 °C'")
+    fast = _FAST_UNITS.get((dimension, unit_text))
+    if fast is not None:
+        return _fast_quantity(match, fast, text)
     try:
         unit = registry().Unit(unit_text) if unit_text != "dimensionless" else registry().dimensionless
         dimensionality = registry().Quantity(1.0, unit).dimensionality
@@ -185,6 +188,40 @@ def parse_quantity(text: object, dimension: str) -> tuple[float, float | None]:
     return float(value), unc
 
 
+#: 0 °C in kelvin (exact).  builder/chem keeps its own copy in chem/constants.py (it imports
+#: nothing of the builder); everything above chem converts through ``celsius`` and ``kelvin`` below.
+ZERO_CELSIUS_K = 273.15
+
+
+#: the units entries use most, read without pint: (dimension, unit text) -> (factor, offset) to SI.
+#: Each gives the very float pint gives (x * factor + offset, in that order; a test compares both
+#: over many values); making pint's registry takes about half a second, so a build whose changed
+#: entries name only these never makes it.
+_FAST_UNITS = {
+    ("temperature", "K"): (1.0, 0.0), ("temperature", "°C"): (1.0, ZERO_CELSIUS_K),
+    ("temperature", "degC"): (1.0, ZERO_CELSIUS_K),
+    ("pressure", "Pa"): (1.0, 0.0), ("pressure", "hPa"): (100.0, 0.0), ("pressure", "kPa"): (1000.0, 0.0),
+    ("pressure", "bar"): (1e5, 0.0), ("pressure", "MPa"): (1e6, 0.0),
+}
+
+
+def _fast_quantity(match, fast: tuple[float, float], text: str) -> tuple[float, float | None]:
+    factor, offset = fast
+    number = _number(match["num"])
+    value = number * factor + offset if offset else number * factor
+    if not math.isfinite(value):
+        raise UnitProblem(f"{_shown(text)} is not a finite number")
+    unc = None
+    if match["unc"] is not None:
+        if match["unc"][0] in "-\u2212":
+            raise UnitProblem(f"the uncertainty in {_shown(text)} is negative",
+                              hint="write it without a sign, e.g. '78.4 ± 0.2 °C'")
+        unc = abs(_number(match["unc"])) * factor  # a difference: no offset
+        if not math.isfinite(unc):
+            raise UnitProblem(f"the uncertainty in {_shown(text)} is not a finite number")
+    return float(value), unc
+
+
 def _delta_unit(unit) -> str:
     name = str(unit)
     return {"degree_Celsius": "delta_degC", "degree_Fahrenheit": "delta_degF"}.get(name, name)
@@ -195,9 +232,6 @@ def to_unit(si_value: float, si_unit: str, unit: str) -> float:
     return float(registry().Quantity(si_value, si_unit).to(unit).magnitude)
 
 
-#: 0 °C in kelvin (exact).  builder/chem keeps its own copy in chem/constants.py (it imports
-#: nothing of the builder); everything above chem converts through the two functions below.
-ZERO_CELSIUS_K = 273.15
 
 
 def celsius(kelvin_value: float) -> float:
@@ -225,9 +259,18 @@ def to_display(si_value: float, si_unit: str, unit: str) -> float:
     if si_unit == "K" and unit == "degC":
         return celsius(si_value)
     scale = _DISPLAY_SCALE.get((si_unit, unit))
-    if scale is not None:
-        return si_value * scale
-    return to_unit(si_value, si_unit, unit)
+    if scale is None:
+        scale = _scale(si_unit, unit)
+    return si_value * scale if scale is not None else to_unit(si_value, si_unit, unit)
+
+
+@lru_cache(maxsize=256)
+def _scale(si_unit: str, unit: str) -> float | None:
+    """The factor from ``si_unit`` to ``unit`` when the conversion is a plain factor (no offset),
+    asked of pint once per pair (a conversion through pint costs about 15 µs; exports make
+    thousands)."""
+    factor, offset = to_unit(1.0, si_unit, unit), to_unit(0.0, si_unit, unit)
+    return factor if offset == 0.0 else None
 
 
 def _round(x: float, digits: int) -> str:

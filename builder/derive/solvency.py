@@ -18,6 +18,7 @@ from dataclasses import dataclass
 from itertools import islice
 
 from builder.chem import solvency
+from builder.core.cache import code_version, key_of, settings_key
 from builder.chem.hansen import COMPONENTS, cohesive_energy_split, estimate_hansen
 from builder.chem.liquid_density import estimate_liquid_density
 from builder.chem.structure3d import max_3d_atoms
@@ -197,9 +198,32 @@ def sphere_matches(resin, derived, solvents: dict | None = None) -> list[SphereM
     return sorted(out, key=lambda m: (m.red, m.id))
 
 
-def solvency_relations(derived) -> Relations:
-    subs, matches = {}, {}
+def solvency_relations(derived, cache=None) -> Relations:
+    """The substitutes of every catalog liquid and the sphere matches of every resin.
+
+    They depend only on the liquids' ranking records (``catalog_solvents``) and the resins'
+    spheres, so with a ``cache`` (``builder.core.cache.Cache``) they are kept under the key of
+    exactly those and the code: an edit that changes no liquid's record (most edits: a solid,
+    a gas, a note, a store) reuses them instead of ranking every liquid against every other again.
+    """
     solvents = catalog_solvents(derived)
+    key = None
+    if cache is not None and cache.root is not None:
+        resins = [(d.entry.id, d.entry.hansen_sphere) for d in derived if d.entry.hansen_sphere is not None]
+        records = [(r.id, r.hansen, r.flash_point_K, r.flammable_category, r.volatility_band, sorted(r.alert_ids),
+                    sorted(r.health_h_codes)) for r in solvents.values()]  # sets sorted: the key is the same in every process
+        key = key_of("relations", code_version(), settings_key(), repr(records), repr(resins))
+        found = cache.get("relations", key)
+        if isinstance(found, Relations):
+            return found
+    relations = _relations(derived, solvents)
+    if key is not None:
+        cache.put("relations", key, relations)
+    return relations
+
+
+def _relations(derived, solvents: dict) -> Relations:
+    subs, matches = {}, {}
     safety = safety_prefixes(solvents)
     for d in derived:
         if d.entry.hansen_sphere is not None:

@@ -119,7 +119,7 @@ def render_site(catalog: Catalog, derived: tuple[Derived, ...], out: Path, diagn
         if asset.is_file():
             writer.copy(f"assets/{asset.name}", asset)
     links: dict[str, tuple[Link, ...]] = cross_links(derived)
-    relations = solvency_relations(derived)
+    relations = solvency_relations(derived, cache)
     by_source, by_method = _uses(catalog, derived)
     by_id = {d.entry.id: d for d in derived}
     # what every catalog-wide page is made from: each entry as derived, its links, the stores and sources

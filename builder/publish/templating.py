@@ -121,6 +121,8 @@ def environment(templates: Path = TEMPLATES) -> jinja2.Environment:
                        card_notes=card_notes, health_codes=health_codes,
                        store_compatibility=store_compatibility, OUTCOME_TEXT=OUTCOME_TEXT,
                        is_label=lambda v: isinstance(v, Label), boiling_validation=_boiling_validation(),
+                       show=show_markup, word=word_markup, tag=tag_markup, value_or=value_or_markup,
+                       material_link=material_link_markup,
                        melting_validation=_stored_validation("melting_validation.json"),
                        small_validation=_stored_validation("boiling_small_validation.json"),
                        limits_validation=_stored_validation("flammability_validation.json"))
@@ -170,6 +172,58 @@ def formula_markup(formula: str) -> Markup:
     for ch in formula:
         out.append(f"<sub>{ch}</sub>" if ch.isdigit() else str(Markup.escape(ch)))
     return Markup("".join(out).replace("</sub><sub>", ""))
+
+
+def _out(value) -> str:
+    """What ``{{ value }}`` writes on a page: bidi controls shown (``visible_output``), then escaped."""
+    if isinstance(value, Markup):
+        return str(visible_output(value))
+    return str(Markup.escape(visible(value) if isinstance(value, str) else value))
+
+
+# The value marks every page shows by the thousand, written in Python rather than as Jinja macros
+# (a macro call costs about ten times as much); each writes exactly what its macro wrote.
+
+@jinja2.pass_context
+def tag_markup(context, v) -> Markup:
+    """The provenance tag after a value or a label: its kind's letter, linked to its source or method."""
+    prov = v.provenance
+    ref = prov.source or plain_name(prov.method)
+    note = f" — {_out(prov.note)}" if prov.note else ""
+    kind = _out(v.kind)
+    return Markup(f'<a class="tag tag-{kind}" href="{_out(context["url"](value_link(v)))}" title="{kind}: '
+                  f'{_out(ref)}{note}">{_out(KIND_MARKS[v.kind])}<span class="tag-ref">{_out(ref)}</span></a>')
+
+
+@jinja2.pass_context
+def show_markup(context, v) -> Markup:
+    """A value with its provenance: the number (and what follows it in brackets), then its tag."""
+    parts = v.text().split(" (", 1)
+    rest = f' <span class="nb">({_out(parts[1])}</span>' if len(parts) > 1 else ""
+    return Markup(f'<span class="value" data-provenance="{_out(v.kind)}"><span class="nb">{_out(parts[0])}</span>'
+                  f'{rest}</span>{tag_markup(context, v)}')
+
+
+@jinja2.pass_context
+def word_markup(context, lab) -> Markup:
+    """A classification in words (a ``Label``), shown and tagged like a value."""
+    return Markup(f'<span class="value label" data-provenance="{_out(lab.kind)}">{_out(lab.text)}</span>'
+                  f'{tag_markup(context, lab)}')
+
+
+@jinja2.pass_context
+def value_or_markup(context, v, missing="—", marked=False) -> Markup:
+    """A Value or a Label with its tag, or ``missing`` when there is none (in a span of class
+    "none" when ``marked``)."""
+    if v is None:
+        return Markup(f'<span class="none">{_out(missing)}</span>' if marked else _out(missing))
+    return word_markup(context, v) if isinstance(v, Label) else show_markup(context, v)
+
+
+@jinja2.pass_context
+def material_link_markup(context, d) -> Markup:
+    """A link to a material's datasheet, by its name."""
+    return Markup(f'<a href="{_out(context["url"]("materials/" + d.entry.id + ".html"))}">{_out(d.entry.name)}</a>')
 
 
 def visible_output(value):

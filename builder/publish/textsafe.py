@@ -33,7 +33,7 @@ _HASH_CHARS = 12
 
 def visible(text: str) -> str:
     """``text`` with each bidirectional control character shown as ``[U+XXXX]``."""
-    if not _BIDI.search(text):
+    if text.isascii() or not _BIDI.search(text):  # the controls are all outside ASCII
         return text
     return _BIDI.sub(lambda m: f"[U+{ord(m.group()):04X}]", text)
 
