@@ -153,3 +153,30 @@ def test_high_severity_marker_carries_more_ink_than_medium():
 
     for prefix in ("", r"\.ps-notes "):
         assert ink(prefix + r"\.note-high") > ink(prefix + r"\.note-medium") > 0
+
+
+def test_value_marks_escape_as_the_templates_do():
+    # builder/publish/templating._out writes what ``{{ x }}`` writes in an autoescaped template
+    # (markupsafe, the reference): same entities, bidi controls shown
+    from markupsafe import Markup, escape
+
+    from builder.publish.templating import _out, visible_output
+
+    for value in ("plain", "a < b & c > d", "it's \"quoted\"", "\u202eevil", 3, 2.5, None, Markup("<b>x</b>"),
+                  "&amp; already", "Ω µ — ±"):
+        expected = str(escape(visible_output(value)))
+        assert _out(value) == expected, value
+
+
+def test_page_relative_links_match_posixpath():
+    # templating._relpath is posixpath.relpath (the reference) for the site's own paths
+    import itertools
+    import posixpath
+
+    from builder.publish.templating import _relpath
+
+    paths = ["index.html", "materials/toluene.html", "materials/toluene.svg", "cards/all.html", "materials",
+             "charts/series-1.svg", "data/toluene.json", "a/b/c.html", "a/b", "a", "materials/x/y.html"]
+    dirs = ["", "materials", "cards", "a", "a/b", "materials/x", "zzz"]
+    for path, start in itertools.product(paths, dirs):
+        assert _relpath(path, start) == posixpath.relpath(path, start or "."), (path, start)

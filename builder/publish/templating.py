@@ -175,10 +175,15 @@ def formula_markup(formula: str) -> Markup:
 
 
 def _out(value) -> str:
-    """What ``{{ value }}`` writes on a page: bidi controls shown (``visible_output``), then escaped."""
+    """What ``{{ value }}`` writes on a page: bidi controls shown (``visible_output``), then escaped
+    as markupsafe escapes (the same five characters, the same entities; a test compares)."""
     if isinstance(value, Markup):
         return str(visible_output(value))
-    return str(Markup.escape(visible(value) if isinstance(value, str) else value))
+    if hasattr(value, "__html__"):
+        return str(Markup.escape(value))
+    text = visible(value) if isinstance(value, str) else str(value)
+    return (text.replace("&", "&amp;").replace("<", "&lt;").replace(">", "&gt;").replace("'", "&#39;")
+            .replace('"', "&#34;"))
 
 
 # The value marks every page shows by the thousand, written in Python rather than as Jinja macros
@@ -246,7 +251,19 @@ def relative(page: str, target: str) -> str:
         anchor = "#" + anchor
     if not target:
         return anchor
-    return posixpath.relpath(short_path(target), posixpath.dirname(short_path(page)) or ".") + anchor
+    return _relpath(short_path(target), posixpath.dirname(short_path(page))) + anchor
+
+
+def _relpath(path: str, start: str) -> str:
+    """``posixpath.relpath(path, start or ".")`` for plain site paths (no ".", "..", empty or
+    leading "/" parts), without its two calls to ``abspath``; anything else goes to relpath."""
+    parts, base = path.split("/"), start.split("/") if start else []
+    if any(x in ("", ".", "..") for x in parts + base):
+        return posixpath.relpath(path, start or ".")
+    common = 0
+    while common < min(len(parts), len(base)) and parts[common] == base[common]:
+        common += 1
+    return "/".join([".."] * (len(base) - common) + parts[common:]) or "."
 
 
 def value_link(value) -> str:
