@@ -256,3 +256,37 @@ def test_concurrent_builds_into_one_folder_both_succeed(make_entries, tmp_path):
     results = [p.communicate(timeout=300) for p in procs]
     assert [p.returncode for p in procs] == [0, 0, 0], results
     assert (out / "index.html").is_file() and _leftovers(tmp_path) == []
+
+
+def test_workers_end_with_a_killed_build(tmp_path):
+    """A killed build leaves no worker behind (an orphan would keep the output folder's lock, and
+    the next build would wait for it for ever)."""
+    script = tmp_path / "pool.py"
+    script.write_text(
+        "import os, sys, time\n"
+        "from builder.core.workers import fork_pool\n"
+        "pool = fork_pool(2)\n"
+        "pids = set()\n"
+        "futures = [pool.submit(time.sleep, 60) for _ in range(2)]\n"
+        "time.sleep(1.0)\n"
+        "print(' '.join(str(p) for p in pool._processes), flush=True)\n"
+        "time.sleep(60)\n", encoding="utf-8")
+    proc = subprocess.Popen([sys.executable, str(script)], cwd=ROOT, stdout=subprocess.PIPE, text=True)
+    workers = [int(p) for p in proc.stdout.readline().split()]
+    assert len(workers) == 2
+    proc.send_signal(signal.SIGKILL)
+    proc.wait(timeout=30)
+    deadline = time.monotonic() + 10
+    alive = workers
+    while alive and time.monotonic() < deadline:
+        time.sleep(0.1)
+        alive = [p for p in workers if _alive(p)]
+    assert alive == []
+
+
+def _alive(pid: int) -> bool:
+    try:
+        with open(f"/proc/{pid}/stat", encoding="ascii") as fh:
+            return fh.read().split(") ", 1)[1][0] != "Z"  # a zombie has ended
+    except FileNotFoundError:
+        return False

@@ -9,9 +9,9 @@ from __future__ import annotations
 
 import multiprocessing
 import os
-from concurrent.futures import ProcessPoolExecutor
 
 from builder.core.cache import Cache, code_version, key_of, settings_key
+from builder.core.workers import fork_pool
 from builder.core.diagnostics import Diagnostic
 from builder.core.model import Catalog, Entry
 from builder.derive.entry import Derived, derive_entry
@@ -133,8 +133,7 @@ def _run_stage(tasks, results, jobs, cache, state, total, progress) -> None:
             progress(state["done"], total)
 
     if jobs > 1 and len(todo) >= MIN_PARALLEL and "fork" in multiprocessing.get_all_start_methods():
-        context = multiprocessing.get_context("fork")
-        with ProcessPoolExecutor(max_workers=min(jobs, len(todo)), mp_context=context) as pool:
+        with fork_pool(min(jobs, len(todo))) as pool:
             chunk = max(1, min(8, len(todo) // (jobs * 8)))
             computed = pool.map(_derive_pair, [t[:3] for t in todo], chunksize=chunk)
             for task, (derived, ok) in zip(todo, computed):

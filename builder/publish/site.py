@@ -6,12 +6,12 @@ swaps that folder into place.
 from __future__ import annotations
 
 import multiprocessing
-from concurrent.futures import ProcessPoolExecutor
 from pathlib import Path
 
 from builder.chem.forces import n_alkane_boiling_point
 from builder.chem.identity import depict_svg, formula_counts
 from builder.core.cache import Cache, code_version, key_of, settings_key
+from builder.core.workers import fork_pool
 from builder.core.model import Catalog
 from builder.derive.catalog import entry_keys as derive_keys
 from builder.derive.entry import Derived
@@ -284,8 +284,7 @@ def _run_tasks(job: _EntryFiles, writer: Writer, tasks: list, jobs: int):
     if jobs > 1 and len(tasks) > 1 and "fork" in multiprocessing.get_all_start_methods():
         _FORKED = (job, writer.env)
         try:
-            context = multiprocessing.get_context("fork")
-            with ProcessPoolExecutor(max_workers=min(jobs, len(tasks)), mp_context=context) as pool:
+            with fork_pool(min(jobs, len(tasks))) as pool:
                 args = [(t, writer.out, writer.previous, writer.previous_keys) for t in tasks]
                 yield from pool.map(_write_task, args)
         finally:
