@@ -150,7 +150,36 @@ def parse_quantity(text: object, dimension: str) -> tuple[float, float | None]:
                           hint="write '<number> ± <number> <unit>', e.g. '78.4 ± 0.2 °C'")
     fast = _FAST_UNITS.get((dimension, unit_text))
     if fast is not None:
-        return _fast_quantity(match, fast, text)
+        convert, convert_difference = _by_factor(*fast)
+    else:
+        convert, convert_difference = _through_pint(unit_text, dim, dimension)
+    try:
+        value = convert(_number(match["num"]))
+    except Exception as exc:  # e.g. an offset unit inside a product ("°C·m/m")
+        raise UnitProblem(f"cannot convert {_shown(text)} to {dim.si_unit}",
+                          hint=f"expected a {dim.name}, e.g. '{dim.example}'") from exc
+    if not math.isfinite(value):
+        raise UnitProblem(f"{_shown(text)} is not a finite number")
+    unc = None
+    if match["unc"] is not None:
+        if match["unc"][0] in "-\u2212":
+            raise UnitProblem(f"the uncertainty in {_shown(text)} is negative",
+                              hint="write it without a sign, e.g. '78.4 ± 0.2 °C'")
+        # An uncertainty is a difference: converted without the offset of °C or °F.
+        unc = abs(convert_difference(_number(match["unc"])))
+        if not math.isfinite(unc):
+            raise UnitProblem(f"the uncertainty in {_shown(text)} is not a finite number")
+    return float(value), unc
+
+
+def _by_factor(factor: float, offset: float):
+    """Conversions of a unit of ``_FAST_UNITS``: a value and a difference, in SI."""
+    return (lambda x: x * factor + offset if offset else x * factor), (lambda x: x * factor)
+
+
+def _through_pint(unit_text: str, dim: Dimension, dimension: str):
+    """Conversions of any other unit pint reads (a value and a difference, in SI), after checking
+    that it is a unit of ``dim``; raises ``UnitProblem`` when not."""
     try:
         unit = registry().Unit(unit_text) if unit_text != "dimensionless" else registry().dimensionless
         dimensionality = registry().Quantity(1.0, unit).dimensionality
@@ -165,27 +194,14 @@ def parse_quantity(text: object, dimension: str) -> tuple[float, float | None]:
     if dimension == "temperature" and "delta_" in str(unit):
         raise UnitProblem(f"{_shown(unit_text)} is a temperature difference, not a temperature",
                           hint="write a temperature such as '78.4 °C' or '351.6 K'")
-    try:
-        value = registry().Quantity(_number(match["num"]), unit).to(dim.si_unit).magnitude
-    except Exception as exc:  # e.g. an offset unit inside a product ("°C·m/m")
-        raise UnitProblem(f"cannot convert {_shown(text)} to {dim.si_unit}",
-                          hint=f"expected a {dim.name}, e.g. '{dim.example}'") from exc
-    if not math.isfinite(value):
-        raise UnitProblem(f"{_shown(text)} is not a finite number")
-    unc = None
-    if match["unc"] is not None:
-        if match["unc"][0] in "-\u2212":
-            raise UnitProblem(f"the uncertainty in {_shown(text)} is negative",
-                              hint="write it without a sign, e.g. '78.4 ± 0.2 °C'")
-        # An uncertainty is a difference: convert it without the offset of °C or °F.
-        delta = registry().Quantity(_number(match["unc"]), unit)
-        if dimension == "temperature":
-            unc = abs(_number(match["unc"])) * registry().Quantity(1.0, _delta_unit(unit)).to("K").magnitude
-        else:
-            unc = abs(delta.to(dim.si_unit).magnitude)
-        if not math.isfinite(unc):
-            raise UnitProblem(f"the uncertainty in {_shown(text)} is not a finite number")
-    return float(value), unc
+
+    def convert(x: float) -> float:
+        return registry().Quantity(x, unit).to(dim.si_unit).magnitude
+
+    if dimension == "temperature":
+        per_kelvin = registry().Quantity(1.0, _delta_unit(unit)).to("K").magnitude
+        return convert, (lambda x: abs(x) * per_kelvin)
+    return convert, (lambda x: registry().Quantity(x, unit).to(dim.si_unit).magnitude)
 
 
 #: 0 °C in kelvin (exact).  builder/chem keeps its own copy in chem/constants.py (it imports
@@ -203,23 +219,6 @@ _FAST_UNITS = {
     ("pressure", "Pa"): (1.0, 0.0), ("pressure", "hPa"): (100.0, 0.0), ("pressure", "kPa"): (1000.0, 0.0),
     ("pressure", "bar"): (1e5, 0.0), ("pressure", "MPa"): (1e6, 0.0),
 }
-
-
-def _fast_quantity(match, fast: tuple[float, float], text: str) -> tuple[float, float | None]:
-    factor, offset = fast
-    number = _number(match["num"])
-    value = number * factor + offset if offset else number * factor
-    if not math.isfinite(value):
-        raise UnitProblem(f"{_shown(text)} is not a finite number")
-    unc = None
-    if match["unc"] is not None:
-        if match["unc"][0] in "-\u2212":
-            raise UnitProblem(f"the uncertainty in {_shown(text)} is negative",
-                              hint="write it without a sign, e.g. '78.4 ± 0.2 °C'")
-        unc = abs(_number(match["unc"])) * factor  # a difference: no offset
-        if not math.isfinite(unc):
-            raise UnitProblem(f"the uncertainty in {_shown(text)} is not a finite number")
-    return float(value), unc
 
 
 def _delta_unit(unit) -> str:

@@ -22,9 +22,9 @@ import matplotlib
 
 matplotlib.use("Agg")
 import matplotlib.pyplot as plt  # noqa: E402
-from matplotlib.transforms import Bbox  # noqa: E402
 
 from builder.core.units import celsius  # noqa: E402
+from builder.publish.placement import Taken  # noqa: E402
 from builder.publish.svgchart import FORCE_MARKS  # noqa: E402
 from builder.publish.textsafe import visible  # noqa: E402
 
@@ -54,32 +54,6 @@ def _svg(fig) -> str:
 _OFFSETS = ((5, 4), (5, -10), (-5, 4), (-5, -10), (0, 8), (0, -14), (9, -3), (-9, -3))
 
 
-def _overlaps(a, b, pad: float = 1.0) -> bool:
-    return not (a.x1 + pad <= b.x0 or b.x1 + pad <= a.x0 or a.y1 + pad <= b.y0 or b.y1 + pad <= a.y0)
-
-
-class _Boxes:
-    """Boxes already taken on the chart, filed by grid cell so a new box is compared only with its neighbours."""
-
-    CELL = 24.0  # display units
-
-    def __init__(self):
-        self.cells: dict[tuple[int, int], list] = {}
-
-    def _cells(self, box, pad: float = 1.0):
-        c = self.CELL
-        for i in range(int((box.x0 - pad) // c), int((box.x1 + pad) // c) + 1):
-            for j in range(int((box.y0 - pad) // c), int((box.y1 + pad) // c) + 1):
-                yield i, j
-
-    def add(self, box) -> None:
-        for cell in self._cells(box):
-            self.cells.setdefault(cell, []).append(box)
-
-    def hit(self, box) -> bool:
-        return any(_overlaps(box, other) for cell in self._cells(box) for other in self.cells.get(cell, ()))
-
-
 def place_labels(fig, ax, items, fontsize: float = 6.5, avoid=()) -> list[str]:
     """Name points without overlap: each label (in ``items`` order) goes to the first place of
     ``_OFFSETS`` where it stays inside the axes and clear of every label placed so far, every
@@ -94,12 +68,10 @@ def place_labels(fig, ax, items, fontsize: float = 6.5, avoid=()) -> list[str]:
     frame = ax.get_window_extent(renderer)
     scale = fig.dpi / 72.0  # offset points → display units
     marker = 4.0  # half a marker's size in display units (s=42 points², about 6.5 pt across)
-    taken = _Boxes()
-    for box in avoid:
-        taken.add(box)
+    taken = Taken((b.x0, b.y0, b.x1, b.y1) for b in avoid)  # boxes as (x0, y0, x1, y1), display units
     for _, x, y in items:
         px, py = ax.transData.transform((x, y))
-        taken.add(Bbox.from_extents(px - marker, py - marker, px + marker, py + marker))
+        taken.add((px - marker, py - marker, px + marker, py + marker))
     left_off = []
     probe = ax.annotate("", (0, 0), textcoords="offset points", xytext=(0, 0), fontsize=fontsize,
                         parse_math=False, ha="left")  # one artist measures every label
@@ -113,8 +85,8 @@ def place_labels(fig, ax, items, fontsize: float = 6.5, avoid=()) -> list[str]:
             ha = "left" if dx > 0 else "right" if dx < 0 else "center"
             x0 = px + dx * scale - {"left": 0.0, "right": width, "center": width / 2.0}[ha]
             y0 = py + dy * scale + rise
-            box = Bbox.from_extents(x0, y0, x0 + width, y0 + height)
-            inside = frame.x0 <= box.x0 and box.x1 <= frame.x1 and frame.y0 <= box.y0 and box.y1 <= frame.y1
+            box = (x0, y0, x0 + width, y0 + height)
+            inside = frame.x0 <= box[0] and box[2] <= frame.x1 and frame.y0 <= box[1] and box[3] <= frame.y1
             if inside and not taken.hit(box):
                 ax.annotate(visible(label), (x, y), textcoords="offset points", xytext=(dx, dy), fontsize=fontsize,
                             color="#333333", parse_math=False, ha=ha)

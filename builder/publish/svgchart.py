@@ -203,26 +203,11 @@ def series_svg(title: str, points) -> str:
         return top + plot_h - (y - y_lo) / (y_hi - y_lo) * plot_h
 
     axis_y = top + plot_h
-    out = [f'<svg xmlns="http://www.w3.org/2000/svg" width="{SERIES_WIDTH}" height="{SERIES_HEIGHT}" '
-           f'viewBox="0 0 {SERIES_WIDTH} {SERIES_HEIGHT}" font-family="{FONT}" font-size="9">',
-           f"<title>{escape(title_text)}</title>",
-           f'<rect x="0" y="0" width="{SERIES_WIDTH}" height="{SERIES_HEIGHT}" fill="#ffffff"/>']
-    x_ticks = sorted(set(xs))
-    y_ticks = [t for t in nice_ticks(y_lo, y_hi, 6) if y_lo <= t <= y_hi]
-    grid = [f'<line x1="{_n(px(t))}" x2="{_n(px(t))}" y1="{top}" y2="{axis_y}"/>' for t in x_ticks]
-    grid += [f'<line x1="{left}" x2="{SERIES_WIDTH - right}" y1="{_n(py(t))}" y2="{_n(py(t))}"/>' for t in y_ticks]
-    out.append('<g stroke="#dddddd" stroke-width="0.6">' + "".join(grid) + "</g>")
-    out.append(f'<g stroke="#000000" stroke-width="0.8"><line x1="{left}" x2="{SERIES_WIDTH - right}" '
-               f'y1="{axis_y}" y2="{axis_y}"/><line x1="{left}" x2="{left}" y1="{top}" y2="{axis_y}"/></g>')
-    labels = [f'<text x="{_n(px(t))}" y="{axis_y + 13}" text-anchor="middle">{t}</text>' for t in x_ticks]
-    labels += [f'<text x="{left - 4}" y="{_n(py(t) + 3)}" text-anchor="end">{_n(t)}</text>' for t in y_ticks]
-    labels.append(f'<text x="{_n(left + plot_w / 2)}" y="{SERIES_HEIGHT - 8}" text-anchor="middle" '
-                  'font-size="10">Carbon atoms</text>')
-    labels.append(f'<text transform="translate(14 {_n(top + plot_h / 2)}) rotate(-90)" text-anchor="middle" '
-                  'font-size="10">Normal boiling point (°C)</text>')
-    for i, line in enumerate(title_lines):
-        labels.append(f'<text x="{SERIES_WIDTH / 2:g}" y="{14 + 12 * i}" text-anchor="middle">{escape(line)}</text>')
-    out.append('<g fill="#000000">' + "".join(labels) + "</g>")
+    titles = [f'<text x="{SERIES_WIDTH / 2:g}" y="{14 + 12 * i}" text-anchor="middle">{escape(line)}</text>'
+              for i, line in enumerate(title_lines)]
+    out = _frame((SERIES_WIDTH, SERIES_HEIGHT), (left, right, top, plot_w, plot_h), title_text, sorted(set(xs)),
+                 [t for t in nice_ticks(y_lo, y_hi, 6) if y_lo <= t <= y_hi], px, py,
+                 ("Carbon atoms", "Normal boiling point (°C)"), labels=titles)
     coords = [(px(x), py(y)) for _, x, y in pts]
     out.append('<polyline points="' + " ".join(f"{_n(x)},{_n(y)}" for x, y in coords)
                + '" fill="none" stroke="#0072B2" stroke-width="1.2" stroke-linejoin="round"/>')
@@ -236,6 +221,33 @@ def series_svg(title: str, points) -> str:
         + "</g>")
     out.append("</svg>")
     return "\n".join(out) + "\n"
+
+
+def _frame(size, box, title: str, x_ticks, y_ticks, px, py, axis_titles, head=(), labels=()) -> list[str]:
+    """The start of a chart on linear axes: the SVG element with its ``<title>`` (the text
+    alternative), a white ground, grid lines at the ticks, the two axis lines, tick labels and axis
+    titles (and any further ``labels``, drawn with them). ``box``: (left, right, top, plot width,
+    plot height) in user units; ``px``, ``py`` map data to user units."""
+    width, height = size
+    left, right, top, plot_w, plot_h = box
+    axis_y = top + plot_h
+    out = [f'<svg xmlns="http://www.w3.org/2000/svg" width="{width}" height="{height}" '
+           f'viewBox="0 0 {width} {height}" font-family="{FONT}" font-size="9">',
+           f"<title>{escape(title)}</title>", f'<rect x="0" y="0" width="{width}" height="{height}" fill="#ffffff"/>',
+           *head]
+    grid = [f'<line x1="{_n(px(t))}" x2="{_n(px(t))}" y1="{top}" y2="{axis_y}"/>' for t in x_ticks]
+    grid += [f'<line x1="{left}" x2="{width - right}" y1="{_n(py(t))}" y2="{_n(py(t))}"/>' for t in y_ticks]
+    out.append('<g stroke="#dddddd" stroke-width="0.6">' + "".join(grid) + "</g>")
+    out.append(f'<g stroke="#000000" stroke-width="0.8"><line x1="{left}" x2="{width - right}" '
+               f'y1="{axis_y}" y2="{axis_y}"/><line x1="{left}" x2="{left}" y1="{top}" y2="{axis_y}"/></g>')
+    text = [f'<text x="{_n(px(t))}" y="{axis_y + 13}" text-anchor="middle">{_n(t)}</text>' for t in x_ticks]
+    text += [f'<text x="{left - 4}" y="{_n(py(t) + 3)}" text-anchor="end">{_n(t)}</text>' for t in y_ticks]
+    text.append(f'<text x="{_n(left + plot_w / 2)}" y="{height - 8}" text-anchor="middle" '
+                f'font-size="10">{escape(axis_titles[0])}</text>')
+    text.append(f'<text transform="translate(14 {_n(top + plot_h / 2)}) rotate(-90)" text-anchor="middle" '
+                f'font-size="10">{escape(axis_titles[1])}</text>')
+    out.append('<g fill="#000000">' + "".join(text + list(labels)) + "</g>")
+    return out
 
 
 def line_boxes(coords, step: float = 2.0, half: float = 1.0) -> list[tuple]:
@@ -319,25 +331,12 @@ def boiling_vs_mass_chart(points, alkane_line) -> tuple[str, list[str]]:
         return top + plot_h - (y - y_lo) / (y_hi - y_lo) * plot_h
 
     axis_y = top + plot_h
-    out = [f'<svg xmlns="http://www.w3.org/2000/svg" width="{BVM_WIDTH}" height="{BVM_HEIGHT}" '
-           f'viewBox="0 0 {BVM_WIDTH} {BVM_HEIGHT}" font-family="{FONT}" font-size="9">',
-           "<title>Normal boiling point against molar mass, by dominant intermolecular force</title>",
-           f'<rect x="0" y="0" width="{BVM_WIDTH}" height="{BVM_HEIGHT}" fill="#ffffff"/>',
-           f'<clipPath id="plot"><rect x="{left}" y="{top}" width="{plot_w}" height="{plot_h}"/></clipPath>']
-    x_ticks = [t for t in nice_ticks(0.0, x_hi, 8) if t <= x_hi]
-    y_ticks = [t for t in nice_ticks(y_lo, y_hi, 7) if y_lo <= t <= y_hi]
-    grid = [f'<line x1="{_n(px(t))}" x2="{_n(px(t))}" y1="{top}" y2="{axis_y}"/>' for t in x_ticks]
-    grid += [f'<line x1="{left}" x2="{BVM_WIDTH - right}" y1="{_n(py(t))}" y2="{_n(py(t))}"/>' for t in y_ticks]
-    out.append('<g stroke="#dddddd" stroke-width="0.6">' + "".join(grid) + "</g>")
-    out.append(f'<g stroke="#000000" stroke-width="0.8"><line x1="{left}" x2="{BVM_WIDTH - right}" '
-               f'y1="{axis_y}" y2="{axis_y}"/><line x1="{left}" x2="{left}" y1="{top}" y2="{axis_y}"/></g>')
-    labels = [f'<text x="{_n(px(t))}" y="{axis_y + 13}" text-anchor="middle">{_n(t)}</text>' for t in x_ticks]
-    labels += [f'<text x="{left - 4}" y="{_n(py(t) + 3)}" text-anchor="end">{_n(t)}</text>' for t in y_ticks]
-    labels.append(f'<text x="{_n(left + plot_w / 2)}" y="{BVM_HEIGHT - 8}" text-anchor="middle" '
-                  'font-size="10">Molar mass (g/mol)</text>')
-    labels.append(f'<text transform="translate(14 {_n(top + plot_h / 2)}) rotate(-90)" text-anchor="middle" '
-                  'font-size="10">Normal boiling point (°C)</text>')
-    out.append('<g fill="#000000">' + "".join(labels) + "</g>")
+    clip = f'<clipPath id="plot"><rect x="{left}" y="{top}" width="{plot_w}" height="{plot_h}"/></clipPath>'
+    out = _frame((BVM_WIDTH, BVM_HEIGHT), (left, right, top, plot_w, plot_h),
+                 "Normal boiling point against molar mass, by dominant intermolecular force",
+                 [t for t in nice_ticks(0.0, x_hi, 8) if t <= x_hi],
+                 [t for t in nice_ticks(y_lo, y_hi, 7) if y_lo <= t <= y_hi], px, py,
+                 ("Molar mass (g/mol)", "Normal boiling point (°C)"), head=[clip])
     line = [(px(m), py(y)) for m, y in alkane if m <= x_hi]
     if line:
         out.append('<polyline clip-path="url(#plot)" points="' + " ".join(f"{_n(x)},{_n(y)}" for x, y in line)
