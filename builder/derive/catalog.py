@@ -27,10 +27,11 @@ def available_cpus() -> int:
         return max(1, os.cpu_count() or 1)
 
 
-def derive_key(entry: Entry, stores: dict, components: tuple[Entry, ...] = ()) -> str:
-    """The cache key of ``derive_entry(entry, stores)`` (a mixture: and of its component entries)."""
-    return key_of("derive", code_version(), settings_key(), repr(entry), repr(sorted(stores.items())),
-                  *(repr(c) for c in components))
+def derive_key(entry: Entry, stores: dict, components: tuple[Entry, ...] = (), settings: str | None = None) -> str:
+    """The cache key of ``derive_entry(entry, stores)`` (a mixture: and of its component entries).
+    ``settings``: ``settings_key()``, when the caller has it already (it reads the environment)."""
+    return key_of("derive", code_version(), settings_key() if settings is None else settings, repr(entry),
+                  repr(sorted(stores.items())), *(repr(c) for c in components))
 
 
 def component_ids(entry: Entry, by_id: dict[str, Entry]) -> list[str]:
@@ -48,8 +49,9 @@ def component_ids(entry: Entry, by_id: dict[str, Entry]) -> list[str]:
 def entry_keys(catalog: Catalog) -> dict[str, str]:
     """Each entry's derive key, by id: what its derived record is made from."""
     by_id = {e.id: e for e in catalog.entries}
+    settings = settings_key()
     return {e.id: derive_key(e, {k: catalog.locations[k] for k in e.catalog.locations},
-                             tuple(by_id[i] for i in component_ids(e, by_id))) for e in catalog.entries}
+                             tuple(by_id[i] for i in component_ids(e, by_id)), settings) for e in catalog.entries}
 
 
 def stage_of(entry: Entry, by_id: dict[str, Entry]) -> int:
@@ -98,6 +100,7 @@ def derive_catalog(catalog: Catalog, jobs: int | None = 1, cache: Cache | None =
     total = len(todo_entries)
     state = {"done": 0}
     jobs = available_cpus() if jobs is None else max(1, jobs)
+    settings = settings_key()
     for stage in (0, 1, 2):
         tasks = []
         for entry in todo_entries:
@@ -107,7 +110,7 @@ def derive_catalog(catalog: Catalog, jobs: int | None = 1, cache: Cache | None =
             ids = component_ids(entry, by_id)
             components = {i: results[i] for i in ids if i in results}
             tasks.append((entry, stores, components,
-                          derive_key(entry, stores, tuple(by_id[i] for i in ids))))
+                          derive_key(entry, stores, tuple(by_id[i] for i in ids), settings)))
         _run_stage(tasks, results, jobs, cache, state, total, progress)
     return tuple(results[e.id] for e in catalog.entries)
 
