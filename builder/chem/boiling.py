@@ -233,8 +233,9 @@ of Z and E double bonds between alkyl groups and between two polar groups
 
 def stereo_features(mol: Chem.Mol) -> list[float]:
     """Return the values named in ``STEREO_FEATURES`` for ``mol``."""
-    return [planar_dipole(mol), *double_bond_configurations(mol), *ring_cis_trans_counts(mol),
-            *alkyl_double_bond_configurations(mol), *polar_double_bond_configurations(mol)]
+    bonds = _stereo_double_bonds(mol)  # one stereo perception for the three double-bond counts
+    return [planar_dipole(mol), *_tally(bonds, _any), *ring_cis_trans_counts(mol),
+            *_tally(bonds, _alkyl_ends), *_tally(bonds, _polar_ends)]
 
 
 def stereo_shift(x: list[float], correction: dict[str, Any] | None) -> float:
@@ -259,10 +260,7 @@ def double_bond_configurations(mol: Chem.Mol) -> tuple[float, float]:
     >>> double_bond_configurations(Chem.MolFromSmiles("Cl/C=C\\\\Cl")), double_bond_configurations(Chem.MolFromSmiles("ClC=CCl"))
     ((1.0, 0.0), (0.0, 0.0))
     """
-    work = Chem.Mol(mol)
-    Chem.AssignStereochemistry(work, cleanIt=True, force=True)
-    stereo = [bond.GetStereo() for bond in work.GetBonds()]
-    return float(stereo.count(Chem.BondStereo.STEREOZ)), float(stereo.count(Chem.BondStereo.STEREOE))
+    return _tally(_stereo_double_bonds(mol), _any)
 
 
 def alkyl_double_bond_configurations(mol: Chem.Mol) -> tuple[float, float]:
@@ -272,7 +270,7 @@ def alkyl_double_bond_configurations(mol: Chem.Mol) -> tuple[float, float]:
     >>> alkyl_double_bond_configurations(Chem.MolFromSmiles("C/C=C\\\\C")), alkyl_double_bond_configurations(Chem.MolFromSmiles("Cl/C=C\\\\Cl"))
     ((1.0, 0.0), (0.0, 0.0))
     """
-    return _double_bonds_where(mol, lambda subs: all(_is_alkyl_carbon(n) for n in subs))
+    return _tally(_stereo_double_bonds(mol), _alkyl_ends)
 
 
 def polar_double_bond_configurations(mol: Chem.Mol) -> tuple[float, float]:
@@ -283,7 +281,7 @@ def polar_double_bond_configurations(mol: Chem.Mol) -> tuple[float, float]:
     >>> polar_double_bond_configurations(Chem.MolFromSmiles("COC(=O)/C=C\\\\C(=O)OC")), polar_double_bond_configurations(Chem.MolFromSmiles("Cl/C=C/CCl"))
     ((1.0, 0.0), (0.0, 0.0))
     """
-    return _double_bonds_where(mol, lambda subs: len(subs) == 2 and all(_is_polar_group(n) for n in subs))
+    return _tally(_stereo_double_bonds(mol), _polar_ends)
 
 
 def _is_polar_group(atom: Chem.Atom) -> bool:
@@ -294,22 +292,43 @@ def _is_polar_group(atom: Chem.Atom) -> bool:
         and bond.GetOtherAtom(atom).GetAtomicNum() in (7, 8, 16) for bond in atom.GetBonds())
 
 
-def _double_bonds_where(mol: Chem.Mol, accept) -> tuple[float, float]:
-    """Numbers of Z and E double bonds whose substituent atoms (both ends) pass ``accept``."""
+def _stereo_double_bonds(mol: Chem.Mol) -> tuple[Chem.Mol, list[tuple[Any, list[Chem.Atom]]]]:
+    """The copy of ``mol`` RDKit perceived stereo on, and (stereo, substituent atoms of both ends)
+    of its every Z or E double bond; the atoms belong to the copy, which must outlive them."""
     work = Chem.Mol(mol)
     Chem.AssignStereochemistry(work, cleanIt=True, force=True)
-    z = e = 0.0
+    out = []
     for bond in work.GetBonds():
         stereo = bond.GetStereo()
         if stereo not in (Chem.BondStereo.STEREOZ, Chem.BondStereo.STEREOE):
             continue
-        ends = (bond.GetBeginAtom(), bond.GetEndAtom())
-        substituents = [n for end in ends for n in end.GetNeighbors() if n.GetIdx() not in
-                        (bond.GetBeginAtomIdx(), bond.GetEndAtomIdx())]
+        ends = (bond.GetBeginAtomIdx(), bond.GetEndAtomIdx())
+        out.append((stereo, [n for end in (bond.GetBeginAtom(), bond.GetEndAtom()) for n in end.GetNeighbors()
+                             if n.GetIdx() not in ends]))
+    return work, out
+
+
+def _tally(bonds, accept) -> tuple[float, float]:
+    """Numbers of Z and E bonds of ``_stereo_double_bonds`` whose substituents pass ``accept``."""
+    _, found = bonds  # the molecule is held until the counting is done
+    z = e = 0.0
+    for stereo, substituents in found:
         if accept(substituents):
             z += stereo == Chem.BondStereo.STEREOZ
             e += stereo == Chem.BondStereo.STEREOE
     return z, e
+
+
+def _any(substituents) -> bool:
+    return True
+
+
+def _alkyl_ends(substituents) -> bool:
+    return all(_is_alkyl_carbon(n) for n in substituents)
+
+
+def _polar_ends(substituents) -> bool:
+    return len(substituents) == 2 and all(_is_polar_group(n) for n in substituents)
 
 
 def _is_alkyl_carbon(atom: Chem.Atom) -> bool:

@@ -201,7 +201,7 @@ def _through_pint(unit_text: str, dim: Dimension, dimension: str):
     if dimension == "temperature":
         per_kelvin = registry().Quantity(1.0, _delta_unit(unit)).to("K").magnitude
         return convert, (lambda x: abs(x) * per_kelvin)
-    return convert, (lambda x: registry().Quantity(x, unit).to(dim.si_unit).magnitude)
+    return convert, convert  # no offset: a difference converts as a value does
 
 
 #: 0 °C in kelvin (exact).  builder/chem keeps its own copy in chem/constants.py (it imports
@@ -229,8 +229,6 @@ def _delta_unit(unit) -> str:
 def to_unit(si_value: float, si_unit: str, unit: str) -> float:
     """Express an SI float in ``unit`` (offset units handled)."""
     return float(registry().Quantity(si_value, si_unit).to(unit).magnitude)
-
-
 
 
 def celsius(kelvin_value: float) -> float:

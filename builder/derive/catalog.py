@@ -11,9 +11,9 @@ import multiprocessing
 import os
 
 from builder.core.cache import Cache, code_version, key_of, settings_key
-from builder.core.workers import fork_pool
 from builder.core.diagnostics import Diagnostic
 from builder.core.model import Catalog, Entry
+from builder.core.workers import fork_pool
 from builder.derive.entry import Derived, derive_entry
 
 #: fewer entries to compute than this are not worth starting processes for

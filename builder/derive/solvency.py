@@ -18,10 +18,10 @@ from dataclasses import dataclass
 from itertools import islice
 
 from builder.chem import solvency
-from builder.core.cache import code_version, key_of, settings_key
 from builder.chem.hansen import COMPONENTS, cohesive_energy_split, estimate_hansen
 from builder.chem.liquid_density import estimate_liquid_density
 from builder.chem.structure3d import max_3d_atoms
+from builder.core.cache import code_version, key_of, settings_key
 from builder.core.values import Provenance, Value, estimated
 from builder.derive.fire import inherited_kind
 

@@ -11,8 +11,8 @@ from pathlib import Path
 from builder.chem.forces import n_alkane_boiling_point
 from builder.chem.identity import depict_svg, formula_counts
 from builder.core.cache import Cache, code_version, key_of, settings_key
-from builder.core.workers import fork_pool
 from builder.core.model import Catalog
+from builder.core.workers import fork_pool
 from builder.derive.catalog import entry_keys as derive_keys
 from builder.derive.entry import Derived
 from builder.derive.forces import FORCE_WORDS

@@ -160,7 +160,6 @@ def vapor_curve_svg(segments, points=(), store_temperature_K=None) -> str:
     return "\n".join(out) + "\n"
 
 
-
 SERIES_WIDTH, SERIES_HEIGHT = 500, 340
 NAME_SIZE = 7.0  # font size of point names
 
