@@ -69,6 +69,23 @@ def test_homologues_are_same_class_and_ch2_apart(synthetic):
     assert ["pentane", "hexane", "heptane"] in series
 
 
+def test_the_structure_class_worked_out_while_deriving_is_the_one_links_would_work_out(synthetic):
+    """Derived.series_class saves the links a parse per entry; without it (a Derived made by hand)
+    the links work the class out themselves, and come out the same."""
+    import dataclasses
+
+    from builder.chem.series import structure_class
+
+    _, derived, links = synthetic
+    for d in derived:
+        assert d.series_class == structure_class(d.identity.smiles)
+    assert structure_class("CCCCCC") == structure_class("CCCCC") != structure_class("CC(C)CC")
+    bare = tuple(dataclasses.replace(d, series_class=None) for d in derived)
+    assert cross_links(bare) == links
+    assert [[d.entry.id for d in s] for s in homologous_series(bare)] == \
+        [[d.entry.id for d in s] for s in homologous_series(derived)]
+
+
 def test_similar_size_different_forces_links_show_both_boiling_points(synthetic):
     _, _, links = synthetic
     # butanone (72.1 g/mol, dipole-dipole) and pentane (72.2 g/mol, dispersion)

@@ -19,6 +19,7 @@ from dataclasses import dataclass, field
 from builder.chem.alerts import Alert, find_alerts
 from builder.chem.handling import Note
 from builder.chem.identity import Identity, identify, parse_smiles
+from builder.chem.series import structure_class
 from builder.chem.storage import Assignment, assign_group
 from builder.core.diagnostics import Diagnostic
 from builder.core.model import Entry, Location, frozen_map
@@ -55,6 +56,8 @@ class Derived:
     storage: Assignment | None = None
     #: a mixture's composition table and how its equilibrium was computed (builder/derive/mixture.py)
     mixture: MixtureFacts | None = None
+    #: the structure class of a single molecule (builder/chem/series.py), which homologues share
+    series_class: tuple | None = None
 
     def get(self, name: str) -> Value | None:
         return self.values.get(name)
@@ -124,8 +127,9 @@ def derive_entry(entry: Entry, locations: Mapping[str, Location] | None = None,
     alerts, storage = hazard_alerts_of(entry, identity, labels)
     labels["storage_group"] = Label(storage.name, Provenance("rule", method="storage-group", note=storage.reason),
                                     storage.group)
+    series_class = structure_class(identity.smiles) if identity is not None and identity.fragments == 1 else None
     return Derived(entry, identity, frozen_map(values), frozen_map(labels), forces, notes, tuple(fire.curve),
-                   tuple(findings), alerts, storage)
+                   tuple(findings), alerts, storage, series_class=series_class)
 
 
 def _derive_mixture(entry: Entry, locations, components) -> Derived:

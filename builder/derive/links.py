@@ -4,8 +4,9 @@ Relations:
 
 - ``isomer``: same molecular formula (reciprocal);
 - ``homologue``: same structure class and formulas differing by whole CH2 units (reciprocal);
-  the structure class is the ring count, the count of each functional group in
-  ``FUNCTIONAL_GROUPS``, the heteroatom counts and the number of branch points;
+  the structure class (``builder.chem.series.structure_class``, worked out while deriving) is the
+  ring count, the count of each functional group in ``builder.chem.series.FUNCTIONAL_GROUPS``, the heteroatom counts and
+  the number of branch points;
 - ``contrast``: molar mass within ``CONTRAST_MASS_RATIO`` of each other but a different
   dominant force (reciprocal) — the boiling points are shown side by side;
 - ``near-bp``: the ``NEAR_BP_COUNT`` entries with the nearest boiling points (not reciprocal);
@@ -14,13 +15,11 @@ Relations:
 """
 from __future__ import annotations
 
-from collections import Counter
 from dataclasses import dataclass
 from functools import lru_cache
 
-from rdkit import Chem
-
 from builder.chem.identity import formula_counts
+from builder.chem.series import structure_class
 from builder.core.units import celsius_text
 from builder.derive.entry import Derived
 
@@ -30,25 +29,6 @@ CONTRAST_MASS_RATIO = 0.10
 CONTRAST_COUNT = 5
 NEAR_BP_COUNT = 3
 
-#: functional groups that define a structure class (SMARTS, our own selection)
-FUNCTIONAL_GROUPS = {
-    "primary alcohol": "[CX4;!$(C(C)(C)C)][OX2H]",
-    "secondary or tertiary alcohol": "[CX4;$(C(C)(C)C)][OX2H]",
-    "phenol": "c[OX2H]",
-    "carboxylic acid": "[CX3](=O)[OX2H]",
-    "ester": "[CX3](=O)[OX2][#6]",
-    "ketone": "[#6][CX3](=O)[#6]",
-    "aldehyde": "[CX3H1](=O)",
-    "ether": "[OD2]([#6;!$(C=O)])[#6;!$(C=O)]",
-    "amine": "[NX3;!$(N-C=O);!$(N-a)]",
-    "amide": "[NX3][CX3]=O",
-    "nitrile": "C#N",
-    "alkene": "[CX3]=[CX3]",
-    "aromatic ring carbon": "c",
-    "halogen": "[F,Cl,Br,I]",
-}
-
-
 @dataclass(frozen=True)
 class Link:
     """A link from one entry to another, with the relation and a sentence saying why."""
@@ -56,21 +36,6 @@ class Link:
     relation: str
     target: str  # entry id
     why: str
-
-
-@lru_cache(maxsize=1)
-def _group_patterns() -> tuple:
-    return tuple(Chem.MolFromSmarts(s) for s in FUNCTIONAL_GROUPS.values())
-
-
-@lru_cache(maxsize=16384)
-def structure_class(smiles: str) -> tuple:
-    """A key shared by members of one homologous series."""
-    mol = Chem.MolFromSmiles(smiles)
-    groups = tuple(len(mol.GetSubstructMatches(p)) for p in _group_patterns())
-    hetero = tuple(sorted(Counter(a.GetSymbol() for a in mol.GetAtoms() if a.GetSymbol() not in ("C", "H")).items()))
-    branches = sum(1 for a in mol.GetAtoms() if a.GetSymbol() == "C" and a.GetDegree() >= 3 and not a.GetIsAromatic())
-    return (mol.GetRingInfo().NumRings(), groups, hetero, branches)
 
 
 @lru_cache(maxsize=16384)
@@ -86,6 +51,11 @@ def ch2_difference(formula_a: str, formula_b: str) -> int | None:
     if n == 0 or diff.get("H", 0) != 2 * n or any(v for el, v in diff.items() if el not in ("C", "H")):
         return None
     return n
+
+
+def _series(d: Derived) -> tuple:
+    """The structure class of a single molecule: as derived, else worked out here."""
+    return d.series_class if d.series_class is not None else structure_class(d.identity.smiles)
 
 
 def _bp(d: Derived) -> float | None:
@@ -125,7 +95,7 @@ def cross_links(derived: tuple[Derived, ...]) -> dict[str, tuple[Link, ...]]:
     by_class: dict[tuple, list] = {}
     for d in molecules:
         by_formula.setdefault(d.identity.formula, []).append(d)
-        by_class.setdefault(structure_class(d.identity.smiles), []).append(d)
+        by_class.setdefault(_series(d), []).append(d)
     pairs_within(by_formula)
     pairs_within(by_class)
     for i, j in sorted(candidates):
@@ -175,7 +145,7 @@ def _pair_link(a: Derived, b: Derived) -> list[Link]:
     fa, fb = a.identity.formula, b.identity.formula
     if fa == fb:
         out.append(Link("isomer", b.entry.id, f"same formula {fa}"))
-    same_class = structure_class(a.identity.smiles) == structure_class(b.identity.smiles)
+    same_class = _series(a) == _series(b)
     n = ch2_difference(fa, fb) if same_class else None
     if n is not None:
         more = "more" if n > 0 else "fewer"
@@ -225,7 +195,7 @@ def homologous_series(derived: tuple[Derived, ...], minimum: int = 3) -> list[li
     for d in derived:
         if d.identity is None or d.identity.fragments != 1:
             continue
-        groups.setdefault(structure_class(d.identity.smiles), []).append(d)
+        groups.setdefault(_series(d), []).append(d)
     series = []
     for members in groups.values():
         members = sorted(members, key=lambda d: (d.identity.molar_mass, d.entry.id))

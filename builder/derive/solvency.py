@@ -205,9 +205,12 @@ def solvency_relations(derived, cache=None) -> Relations:
     spheres, so with a ``cache`` (``builder.core.cache.Cache``) they are kept under the key of
     exactly those and the code: an edit that changes no liquid's record (most edits: a solid,
     a gas, a note, a store) reuses them instead of ranking every liquid against every other again.
+    The relations of the last build are kept as well (under the code and the settings only, with
+    the records they were made from): when a few records changed, only the liquids whose lists
+    they can touch are ranked again (``updated_relations``).
     """
     solvents = catalog_solvents(derived)
-    key = None
+    key = last = None
     if cache is not None and cache.root is not None:
         resins = [(d.entry.id, d.entry.hansen_sphere) for d in derived if d.entry.hansen_sphere is not None]
         records = [(r.id, r.hansen, r.flash_point_K, r.flammable_category, r.volatility_band, sorted(r.alert_ids),
@@ -216,10 +219,80 @@ def solvency_relations(derived, cache=None) -> Relations:
         found = cache.get("relations", key)
         if isinstance(found, Relations):
             return found
-    relations = _relations(derived, solvents)
+        last = key_of("relations-last", code_version(), settings_key())
+    relations = None
+    if last is not None:
+        kept = cache.get("relations", last)
+        if isinstance(kept, tuple) and len(kept) == 2 and isinstance(kept[1], Relations):
+            relations = updated_relations(kept[1], kept[0], solvents, derived)
+    if relations is None:
+        relations = _relations(derived, solvents)
     if key is not None:
         cache.put("relations", key, relations)
+        cache.put("relations", last, (solvents, relations))
     return relations
+
+
+#: above this many changed liquids, ranking every liquid again is as quick as finding which to rank
+UPDATE_LIMIT = 50
+
+
+def updated_relations(previous: Relations, before: dict, solvents: dict, derived) -> Relations | None:
+    """The relations for the records ``solvents`` from ``previous``, made for the records ``before``
+    (both: id → ``solvency.Solvent``); the same as ``_relations`` gives, or None when too much changed.
+
+    A liquid's list is the first ``SHOWN_SUBSTITUTES`` of the other liquids that pass its filter
+    (safer, better at something, within ``DEFAULT_MAX_RA``), safest first, and whether one passes
+    depends only on the two records. So a liquid whose own record is unchanged keeps its list
+    unless a changed liquid was on it (then it is ranked again); otherwise the changed liquids'
+    new records that pass its filter are merged into the list by the same ordering. A changed or
+    new liquid is ranked again; the sphere matches, one pass over the liquids per resin, are
+    always worked out again.
+    """
+    changed = {k for k in before.keys() | solvents.keys() if before.get(k) != solvents.get(k)}
+    if len(changed) > UPDATE_LIMIT:
+        return None
+    arrivals = [solvents[k] for k in sorted(changed) if k in solvents]
+    safety = safety_prefixes(solvents)
+    subs, matches = {}, {}
+    for d in derived:
+        eid = d.entry.id
+        if d.entry.hansen_sphere is not None:
+            matches[eid] = tuple(sphere_matches(d, derived, solvents))
+            continue
+        me = solvents.get(eid)
+        if me is None:
+            continue
+        old = previous.substitutes.get(eid, ())
+        if eid in changed or any(c.id in changed for c in old):
+            found = tuple(substitutes_for(d, derived, solvents=solvents, safety=safety, limit=SHOWN_SUBSTITUTES))
+        else:
+            found = _merged(me, old, arrivals, solvents, safety)
+        if found:
+            subs[eid] = found
+    return Relations(subs, matches)
+
+
+def _merged(me, old: tuple, arrivals: list, solvents: dict, safety: dict) -> tuple:
+    """``old`` (a liquid's substitutes) with those of ``arrivals`` that pass its filter, in the
+    ranking's order, the first ``SHOWN_SUBSTITUTES`` kept."""
+    mine = safety[me.id]
+    entering = []
+    for s in arrivals:
+        if s.id == me.id or not safety[s.id] < mine:
+            continue
+        ra = solvency.hansen_distance(s.hansen, me.hansen)
+        if ra > DEFAULT_MAX_RA:
+            continue
+        better, worse = solvency.compare(s, me)
+        if better:
+            entering.append((solvency.safety_key(s, ra), solvency.Candidate(s.id, (), tuple(s.hansen), round(ra, 3),
+                                                                              better, worse)))
+    if not entering:
+        return old
+    staying = [(solvency.safety_key(solvents[c.id], solvency.hansen_distance(solvents[c.id].hansen, me.hansen)), c)
+               for c in old]
+    return tuple(c for _, c in sorted(staying + entering, key=lambda item: item[0])[:SHOWN_SUBSTITUTES])
 
 
 def _relations(derived, solvents: dict) -> Relations:
