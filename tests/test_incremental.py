@@ -236,13 +236,123 @@ def test_solvency_relations_are_reused_until_a_liquids_record_changes(tmp_path, 
         return solvency_relations(derived, cache), solvency_relations(derived)
 
     cached_first, fresh = relations()
-    assert cached_first == fresh and fresh.substitutes and fresh.matches and (cache.hits, cache.misses) == (0, 1)
+    # no relations of these records, nor of a last build, are kept yet
+    assert cached_first == fresh and fresh.substitutes and fresh.matches and (cache.hits, cache.misses) == (0, 2)
     stearic = folder / "stearic-acid.yaml"
     stearic.write_text(stearic.read_text(encoding="utf-8").replace("notes: >-", "notes: >-\n  Checked again.", 1),
                        encoding="utf-8")
     reused, fresh = relations()
-    assert reused == fresh and (cache.hits, cache.misses) == (1, 1)
+    assert reused == fresh and (cache.hits, cache.misses) == (1, 2)
     toluene = folder / "toluene.yaml"
     toluene.write_text(toluene.read_text(encoding="utf-8").replace("value: 4.0 °C", "value: 30.0 °C"), encoding="utf-8")
     changed, fresh = relations()
-    assert changed == fresh and changed != cached_first and (cache.hits, cache.misses) == (1, 2)
+    # the records changed: the last build's relations are updated, and equal ranking everything again
+    assert changed == fresh and changed != cached_first and (cache.hits, cache.misses) == (2, 3)
+
+
+def test_rows_of_the_catalog_wide_pages_are_kept_between_builds(tmp_path, cached, monkeypatch):
+    """After one entry's boiling point changes, each listing page makes again only the pieces of that
+    entry (one row, one card) and takes the rest from the last build; the site equals a cold build,
+    also when a file of kept pieces is damaged."""
+    import shutil
+
+    from conftest import DEMO
+
+    from builder.derive.catalog import entry_keys
+    from builder.load.entries import load_catalog
+    from builder.publish import pieces as pieces_module
+
+    folder = tmp_path / "entries"
+    shutil.copytree(DEMO, folder)
+    made: dict[str, tuple[int, int]] = {}
+    original_init, original_save = pieces_module.Pieces.__init__, pieces_module.Pieces.save
+
+    def init(self, cache, base, path):
+        original_init(self, cache, base, path)
+        self.path = path
+
+    def save(self):
+        made[self.path] = (self.made, len(self.used))
+        original_save(self)
+
+    monkeypatch.setattr(pieces_module.Pieces, "__init__", init)
+    monkeypatch.setattr(pieces_module.Pieces, "save", save)
+    out = tmp_path / "site"
+    assert _build(folder, out, "--jobs", "1") == 0
+    entries = len(list(folder.glob("*.yaml"))) - 2
+    assert made["index.html"] == (entries, entries) and made["catalog.csv"] == (entries, entries)
+    assert any((cached / "templates").iterdir())  # the compiled templates are kept too
+    toluene = folder / "toluene.yaml"
+    text = toluene.read_text(encoding="utf-8")
+    assert "value: 383.75 K" in text
+    before = entry_keys(load_catalog(folder)[0])
+    toluene.write_text(text.replace("value: 383.75 K", "value: 384.75 K"), encoding="utf-8")
+    after = entry_keys(load_catalog(folder)[0])
+    changed = {k for k in after if before.get(k) != after[k]}  # toluene and the blends that contain it
+    assert "toluene" in changed and len(changed) < entries // 4
+    made.clear()
+    assert _build(folder, out, "--jobs", "1") == 0
+    for page in ("index.html", "catalog.csv", "categories.html", "cards/all.html"):
+        assert made[page][0] == len(changed), page  # the rows (or cards) of those entries only
+    assert made["trends.html"][0] == 1  # of those, only toluene is a molecule on the chart
+    assert made["index.html"][1] == entries
+    assert _digest(out) == _cold(folder, tmp_path / "cold")
+    for kept in (cached / pieces_module.KIND).rglob("*.pickle"):
+        kept.write_bytes(b"not a pickle")
+    toluene.write_text(text, encoding="utf-8")
+    made.clear()
+    assert _build(folder, out, "--jobs", "1") == 0
+    assert made["index.html"][0] == entries
+    assert _digest(out) == _cold(folder, tmp_path / "cold-again")
+
+
+def test_store_compatibility_is_kept_until_a_members_storage_changes(tmp_path, cached):
+    """What the cache gives equals working it out afresh; a member's new hazard statement (a new
+    storage class) is not answered from the cache."""
+    import shutil
+
+    from conftest import DEMO
+
+    from builder.derive.catalog import derive_catalog
+    from builder.load.entries import load_catalog
+    from builder.publish.stores import KeptCompatibility, compat_counts, store_compatibility
+
+    folder = tmp_path / "entries"
+    shutil.copytree(DEMO, folder)
+    cache = Cache(cached)
+
+    def both():
+        catalog = load_catalog(folder)[0]
+        derived = derive_catalog(catalog)
+        kept = KeptCompatibility(catalog, derived, cache)
+        return ({k: (kept.full(k), kept.counts(k)) for k in catalog.locations},
+                {k: (store_compatibility(catalog, derived, k),) * 2 for k in catalog.locations})
+
+    first, fresh = both()
+    assert {k: v[0] for k, v in first.items()} == {k: v[0] for k, v in fresh.items()}
+    assert all(counts == compat_counts(full) for full, counts in first.values())
+    assert any(counts["count"] for _, counts in first.values())  # the demo has conflicts to count
+    misses = cache.misses
+    again, _ = both()
+    assert again == first and cache.misses == misses  # every store answered from the cache
+    ether = folder / "diethyl-ether.yaml"
+    text = ether.read_text(encoding="utf-8")
+    assert "hazard_statements:" in text
+    ether.write_text(text.replace("hazard_statements: [", "hazard_statements: [H271, ", 1), encoding="utf-8")
+    changed, fresh = both()
+    assert {k: v[0] for k, v in changed.items()} == {k: v[0] for k, v in fresh.items()}
+    assert changed != first and cache.misses > misses
+
+
+def test_a_build_leaves_the_garbage_collector_as_it_found_it(make_entries, tmp_path):
+    """The build freezes the loaded catalog against the collector while it writes the site, and
+    thaws it after, also when the build fails."""
+    import gc
+
+    folder = make_entries({"ethanol.yaml": ETHANOL, "toluene.yaml": TOLUENE})
+    assert gc.get_freeze_count() == 0
+    assert _build(folder, tmp_path / "site", "--no-cache") == 0
+    assert gc.get_freeze_count() == 0 and gc.isenabled()
+    (folder / "toluene-again.yaml").write_text(TOLUENE.replace("T-2", "T-9"), encoding="utf-8")
+    assert _build(folder, tmp_path / "site2", "--no-cache") == 1  # the same structure twice: found after deriving
+    assert gc.get_freeze_count() == 0 and gc.isenabled()

@@ -77,3 +77,13 @@ def test_entry_text_never_reaches_the_chart_unescaped():
     svg = vapor_curve_svg(_toluene_segments(), [("<b>&", 300.0, 4000.0)])
     assert "<b>" not in svg and "&lt;b&gt;&amp;" in svg
     ET.fromstring(svg)
+
+
+def test_text_is_escaped_as_the_standard_library_escapes_it():
+    """svgchart.escape stands in for xml.sax.saxutils.escape (not imported on every build)."""
+    from xml.sax.saxutils import escape as reference
+
+    from builder.publish import svgchart
+
+    for text in ("a & b", "<script>", "x > y < z", "&amp;", "plain", "R&D <lab> & co >", ""):
+        assert svgchart.escape(text) == reference(text)

@@ -255,6 +255,8 @@ def to_display(si_value: float, si_unit: str, unit: str) -> float:
     """An SI float in a display unit of the exports: ``degC`` for K, ``kPa``, ``g/cm3`` ..."""
     if si_unit == "K" and unit == "degC":
         return celsius(si_value)
+    if si_unit == unit:
+        return si_value
     scale = _DISPLAY_SCALE.get((si_unit, unit))
     if scale is None:
         scale = _scale(si_unit, unit)

@@ -40,7 +40,7 @@ def entry_part(d: Derived, links) -> str:
 def _at_depth(part: str, depth: int) -> str:
     """JSON text made with indent 1 at depth 0, as it stands nested ``depth`` levels deep."""
     pad = " " * depth
-    return "\n".join(pad + line for line in part.split("\n"))
+    return pad + part.replace("\n", "\n" + pad)
 
 
 def _head() -> str:
@@ -127,14 +127,23 @@ def csv_columns() -> list:
     ]
 
 
-def catalog_csv(derived: tuple[Derived, ...]) -> str:
-    buf = io.StringIO()
-    writer = csv.writer(buf, lineterminator="\n")
+def catalog_csv(derived: tuple[Derived, ...], pieces=None, entry_keys: dict | None = None) -> str:
+    """One row a material. With ``pieces`` (``builder.publish.pieces.Pieces``) and the derive keys
+    by id, a row whose entry is unchanged is taken from the last build instead of written again."""
     columns = csv_columns()
-    writer.writerow([name for name, _ in columns])
-    for d in derived:
-        writer.writerow([get(d) if getattr(get, "numeric", False) else csv_text_cell(get(d))
-                         for _, get in columns])
+    header = _csv_line([name for name, _ in columns])
+
+    def row(d: Derived) -> str:
+        return _csv_line([get(d) if getattr(get, "numeric", False) else csv_text_cell(get(d)) for _, get in columns])
+
+    if pieces is None or entry_keys is None:
+        return header + "".join(row(d) for d in derived)
+    return header + "".join(pieces.get(("csv", header, entry_keys[d.entry.id]), lambda d=d: row(d)) for d in derived)
+
+
+def _csv_line(cells: list) -> str:
+    buf = io.StringIO()
+    csv.writer(buf, lineterminator="\n").writerow(cells)
     return buf.getvalue()
 
 

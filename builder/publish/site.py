@@ -16,35 +16,44 @@ from builder.core.workers import fork_pool
 from builder.derive.catalog import entry_keys as derive_keys
 from builder.derive.entry import Derived
 from builder.derive.forces import FORCE_WORDS
-from builder.derive.solvency import params_of, solvency_relations, solvent_of
 from builder.derive.links import Link, cross_links, homologous_series
+from builder.derive.solvency import params_of, solvency_relations, solvent_of
 from builder.publish import exports, svgchart
+from builder.publish.pieces import Pieces
 from builder.publish.revision import Revision
-from builder.publish.stores import store_sheet
-from builder.publish.templating import FLAMMABLE_CATEGORIES, TEMPLATES, Writer, environment, revision_text, txy_path
+from builder.publish.stores import KeptCompatibility, store_sheet
+from builder.publish.templating import (
+    FLAMMABLE_CATEGORIES,
+    TEMPLATES,
+    Writer,
+    environment,
+    revision_text,
+    txy_path,
+)
 from builder.publish.textsafe import short_path
 
 
 def _uses(catalog: Catalog, derived) -> tuple[dict, dict]:
-    """Back-links: source key → [(derived, value name)], method id → [(derived, value name)]."""
-    by_source: dict[str, list] = {k: [] for k in catalog.sources}
-    by_method: dict[str, list] = {}
+    """Back-links: source key → [(derived, value name)], method id → [(derived, value name)], each
+    list in order of entry id, then value name, without repeats."""
+    by_source: dict[str, set] = {k: set() for k in catalog.sources}
+    by_method: dict[str, set] = {}
     for d in derived:
+        eid = d.entry.id
         items = list(d.values.items()) + list(d.labels.items())
         if d.forces is not None:
             items += list(d.forces.numbers.items())
         for name, value in items:
             prov = value.provenance
             if prov.source and prov.source in by_source:
-                by_source[prov.source].append((d, name))
+                by_source[prov.source].add((eid, name))
             if prov.method:
-                by_method.setdefault(prov.method, []).append((d, name))
+                by_method.setdefault(prov.method, set()).add((eid, name))
         if d.entry.antoine:
-            by_source[d.entry.antoine.source].append((d, "antoine"))
-    dedup = lambda pairs: sorted(set((d.entry.id, n) for d, n in pairs))  # noqa: E731
+            by_source[d.entry.antoine.source].add((eid, "antoine"))
     index = {d.entry.id: d for d in derived}
-    return ({k: [(index[i], n) for i, n in dedup(v)] for k, v in by_source.items()},
-            {k: [(index[i], n) for i, n in dedup(v)] for k, v in by_method.items()})
+    return ({k: [(index[i], n) for i, n in sorted(v)] for k, v in by_source.items()},
+            {k: [(index[i], n) for i, n in sorted(v)] for k, v in by_method.items()})
 
 
 def _groups(catalog: Catalog, derived) -> dict:
@@ -101,12 +110,14 @@ def render_site(catalog: Catalog, derived: tuple[Derived, ...], out: Path, diagn
     Every file is made from a key of what it shows (see ``Writer``): with the site it replaces
     (``previous``, and the keys that site was made from, ``previous_keys``) unchanged files
     are linked, not made again. ``keys`` (a dict) receives this build's keys.
-    ``progress(done, total)`` is called per datasheet. ``cache`` keeps each entry's JSON text
-    between builds (the exports are put together from it). ``jobs``: processes that write
+    ``progress(done, total)`` is called per datasheet. ``cache`` keeps, between builds, the
+    solvency relations, the store compatibility, the compiled templates and the pieces of the
+    catalog-wide files (``builder.publish.pieces``: their rows, cards, CSV rows and each entry's
+    JSON text in catalog.json). ``jobs``: processes that write
     the datasheets (each writes its own files; the result does not depend on their number).
     """
     cache = cache or Cache(None)
-    env = environment()
+    env = environment(compiled=cache.folder("templates"))
     revision = revision or Revision(None, None, False, {})
     stamp = (f"catalog data of {revision.date[:10]} ({revision.commit[:7]}{', uncommitted changes' if revision.dirty else ''})"
              if revision.commit else "catalog data not under version control")
@@ -120,7 +131,6 @@ def render_site(catalog: Catalog, derived: tuple[Derived, ...], out: Path, diagn
             writer.copy(f"assets/{asset.name}", asset)
     links: dict[str, tuple[Link, ...]] = cross_links(derived)
     relations = solvency_relations(derived, cache)
-    by_source, by_method = _uses(catalog, derived)
     by_id = {d.entry.id: d for d in derived}
     # what every catalog-wide page is made from: each entry as derived, its links, the stores and sources
     whole = key_of(base, "whole", *(f"{k}={v}" for k, v in sorted(entry_keys.items())), repr(sorted(links.items())),
@@ -129,49 +139,55 @@ def render_site(catalog: Catalog, derived: tuple[Derived, ...], out: Path, diagn
     wide: list = []
     series_charts = _catalog_charts(derived, wide, base)
     wide.append(lambda w: w.made("search-index.js", whole, lambda: exports.search_index_js(derived)))
-    parts = {}
-    for d in derived:
-        mine = links.get(d.entry.id, ())
-        part_key = key_of(base, "json", entry_keys[d.entry.id], repr(mine))
-        part = cache.get("json", part_key)
-        if not isinstance(part, str):
-            part = exports.entry_part(d, mine)
-            cache.put("json", part_key, part)
-        parts[d.entry.id] = (part_key, part)
-    wide.append(lambda w: w.made("catalog.json", whole,
-                                 lambda: exports.catalog_json_from_parts([parts[d.entry.id][1] for d in derived])))
-    wide.append(lambda w: w.made("catalog.csv", whole, lambda: exports.catalog_csv(derived)))
+    # each entry's JSON text is made from its entry and its links; catalog.json keeps them as pieces
+    parts = {d.entry.id: key_of(base, "json", entry_keys[d.entry.id], repr(links.get(d.entry.id, ())))
+             for d in derived}
+    wide.append(lambda w: w.made("catalog.json", whole, lambda: _with_pieces(
+        cache, base, "catalog.json", lambda pieces: exports.catalog_json_from_parts(
+            [pieces.get((parts[d.entry.id],), lambda d=d: exports.entry_part(d, links.get(d.entry.id, ())))
+             for d in derived]))))
+    wide.append(lambda w: w.made("catalog.csv", whole, lambda: _with_pieces(
+        cache, base, "catalog.csv", lambda pieces: exports.catalog_csv(derived, pieces, entry_keys))))
     common = dict(catalog=catalog, derived=derived, by_id=by_id, groups=_groups(catalog, derived))
+    compat = KeptCompatibility(catalog, derived, cache)
+
+    def listing(w, path, template, key, **context):
+        """A catalog-wide page made of pieces (templates/pieces.html), each kept between builds."""
+        if not w.reuse(short_path(path), key):
+            _with_pieces(cache, base, short_path(path), lambda pieces: w.page(
+                path, template, pieces=pieces, entry_keys=entry_keys, **context, **common))
+
     for path, template in (("index.html", "index.html"), ("forces.html", "by_force.html"),
                            ("stores.html", "by_store.html"), ("categories.html", "by_category.html")):
-        wide.append(lambda w, path=path, template=template: w.page(path, template, key=whole, **common))
-    wide.append(lambda w: w.page("trends.html", "trends.html", key=whole, series_charts=series_charts, **common))
+        wide.append(lambda w, path=path, template=template: listing(w, path, template, whole, compat_counts=compat.counts))
+    wide.append(lambda w: listing(w, "trends.html", "trends.html", whole, series_charts=series_charts))
     solvents, resins = solvency_table(derived), spheres(derived)
     # made again only when what it plots changes: names, parameters, dominant forces, spheres
     plotted = repr([(d.entry.id, d.entry.name, p, d.label("dominant_force").code if d.label("dominant_force") else None)
                     for d, p in solvents]) + repr([(d.entry.name, sph) for d, sph in resins])
     wide.append(lambda w: w.made("charts/solvency-map.svg", key_of(base, "solvency-map", plotted),
                                  lambda: _charts().solvency_map_svg(solvents, resins)))
-    wide.append(lambda w: w.page("solvency.html", "solvency.html", key=whole, solvents=solvents, spheres=resins,
-                                 relations=relations, **common))
-    wide.append(lambda w: w.page("sources.html", "sources.html", key=whole, sources_used=by_source, **common))
-    wide.append(lambda w: w.page("methods.html", "methods.html", key=whole, methods_used=by_method, **common))
+    wide.append(lambda w: listing(w, "solvency.html", "solvency.html", whole, solvents=solvents, spheres=resins,
+                                  relations=relations))
+    # which values cite each source and use each method: worked out by the worker that writes the page
+    wide.append(lambda w: listing(w, "sources.html", "sources.html", whole, sources_used=_uses(catalog, derived)[0]))
+    wide.append(lambda w: listing(w, "methods.html", "methods.html", whole, methods_used=_uses(catalog, derived)[1]))
     wide.append(lambda w: w.page("build.html", "build.html", key=key_of(whole, repr(revision)),
                                  diagnostics=diagnostics, revision=revision, **common))
     cards_per_page = 8
-    wide.append(lambda w: w.page("cards/all.html", "cards.html", key=whole, title="whole catalog", cards=derived,
-                                 per_page=cards_per_page, **common))
+    wide.append(lambda w: listing(w, "cards/all.html", "cards.html", whole, title="whole catalog", cards=derived,
+                                  per_page=cards_per_page))
     for key, loc in catalog.locations.items():
         members = [d for d in derived if key in d.entry.catalog.locations]
         members_key = key_of(base, "store", repr(loc), *(entry_keys[d.entry.id] for d in members))
 
         def store_files(w, key=key, loc=loc, members=members, members_key=members_key):
-            w.page(f"cards/{key}.html", "cards.html", key=members_key, title=loc.name, cards=members,
-                   per_page=cards_per_page, **common)
-            sheet_key = key_of(members_key, "sheet", whole)  # a store sheet may compare its materials with others
+            listing(w, f"cards/{key}.html", "cards.html", members_key, title=loc.name, cards=members,
+                    per_page=cards_per_page)
+            sheet_key = key_of(members_key, "sheet")  # a store sheet shows only the store and its members
             if not w.reuse(short_path(f"stores/{key}.html"), sheet_key):
-                w.page(f"stores/{key}.html", "store_sheet.html", stamp=stamp, **store_sheet(catalog, derived, key),
-                       **common)
+                w.page(f"stores/{key}.html", "store_sheet.html", stamp=stamp,
+                       **store_sheet(catalog, derived, key, compat.full(key)), **common)
         wide.append(store_files)
     job = _EntryFiles(catalog, by_id, links, parts, entry_keys, base, revision, common, relations, wide)
     chunks = [list(range(i, min(i + _CHUNK, len(derived)))) for i in range(0, len(derived), _CHUNK)]
@@ -191,6 +207,14 @@ def render_site(catalog: Catalog, derived: tuple[Derived, ...], out: Path, diagn
     if keys is not None:
         keys.update(writer.keys)
     return writer.written
+
+
+def _with_pieces(cache: Cache, base: str, path: str, make):
+    """``make(pieces)`` with the kept pieces of the site file ``path``, kept again afterwards."""
+    pieces = Pieces(cache, base, path)
+    result = make(pieces)
+    pieces.save()
+    return result
 
 
 def _vapor_chart(d: Derived) -> str:
@@ -256,8 +280,8 @@ class _EntryFiles:
         if d.mixture is not None and d.mixture.txy is not None:
             writer.made(txy_path(eid), key_of(base, "txy", own), lambda: _txy_chart(d))
         mine = self.links.get(eid, ())
-        part_key, part = self.parts[eid]
-        writer.made(f"data/{eid}.json", part_key, lambda: exports.entry_file_json_from_part(part))
+        writer.made(f"data/{eid}.json", self.parts[eid],
+                    lambda: exports.entry_file_json_from_part(exports.entry_part(d, mine)))
         used = sorted({v.provenance.source for v in d.values.values() if v.provenance.source}
                       | ({d.entry.antoine.source} if d.entry.antoine else set()))
         sources = [catalog.sources[k] for k in used if k in catalog.sources]
@@ -282,11 +306,12 @@ def _run_tasks(job: _EntryFiles, writer: Writer, tasks: list, jobs: int):
     """
     global _FORKED
     if jobs > 1 and len(tasks) > 1 and "fork" in multiprocessing.get_all_start_methods():
-        _FORKED = (job, writer.env)
+        # the workers inherit the job and the last build's keys (thousands of them) rather than
+        # receive them with every task
+        _FORKED = (job, writer.env, writer.out, writer.previous, writer.previous_keys)
         try:
             with fork_pool(min(jobs, len(tasks))) as pool:
-                args = [(t, writer.out, writer.previous, writer.previous_keys) for t in tasks]
-                yield from pool.map(_write_task, args)
+                yield from pool.map(_write_task, tasks)
         finally:
             _FORKED = None
     else:
@@ -304,8 +329,7 @@ def _do_task(job: _EntryFiles, writer: Writer, task) -> tuple[list[str], dict, i
     return writer.written, writer.keys, writer.reused
 
 
-def _write_task(args) -> tuple[list[str], dict, int]:
+def _write_task(task) -> tuple[list[str], dict, int]:
     """In a forked worker: do one task (``_run_tasks``) with a writer of its own."""
-    task, out, previous, previous_keys = args
-    job, env = _FORKED
+    job, env, out, previous, previous_keys = _FORKED
     return _do_task(job, Writer(env, out, previous, previous_keys), task)

@@ -10,7 +10,13 @@ Rules (our own wording; the criteria are the GHS category and flash/boiling poin
 """
 from __future__ import annotations
 
-from builder.chem.storage import default_table, flammable_volume, grouped_conflicts, store_conflicts
+from builder.chem.storage import (
+    default_table,
+    flammable_volume,
+    grouped_conflicts,
+    store_conflicts,
+)
+from builder.core.cache import Cache, code_version, key_of
 from builder.core.model import Catalog
 from builder.core.units import celsius_text
 from builder.derive.entry import Derived
@@ -30,8 +36,9 @@ def conflicts(d: Derived, rated_K: float | None) -> list[str]:
     return out
 
 
-def store_sheet(catalog: Catalog, derived: tuple[Derived, ...], key: str) -> dict:
-    """Context for one store sheet, materials in a stable order (category, then name)."""
+def store_sheet(catalog: Catalog, derived: tuple[Derived, ...], key: str, compat: dict | None = None) -> dict:
+    """Context for one store sheet, materials in a stable order (category, then name); ``compat``:
+    the store's ``store_compatibility`` when the caller has it already."""
     loc = catalog.locations[key]
     rated = loc.max_store_temperature.value if loc.max_store_temperature else None
     members = [d for d in derived if key in d.entry.catalog.locations]
@@ -57,7 +64,7 @@ def store_sheet(catalog: Catalog, derived: tuple[Derived, ...], key: str) -> dic
         notes.append(f"{n_conflicts} material{'s' if n_conflicts != 1 else ''} can reach a flash point or boiling "
                      "point at the store's rated temperature (see the last column).")
     return {"loc": loc, "members": [(d, conflicts(d, rated)) for d in members], "store_notes": notes,
-            "compat": store_compatibility(catalog, derived, key)}
+            "compat": store_compatibility(catalog, derived, key) if compat is None else compat}
 
 
 def store_compatibility(catalog: Catalog, derived, key: str) -> dict:
@@ -88,3 +95,47 @@ def store_compatibility(catalog: Catalog, derived, key: str) -> dict:
             "separate_grouped": grouped_conflicts(separate),
             "count": len(separate) + len(limits), "names": {d.entry.id: d.entry.name for d in members},
             "source": table.source}
+
+
+class KeptCompatibility:
+    """``store_compatibility`` per store key, worked out once per process and kept in the build cache
+    (kind ``compat``) under the key of exactly what it reads: the store, and each member's id, name,
+    storage assignment and container. An edit that changes no member's storage (most edits) reuses
+    it; the pairs of a store of a few hundred materials take a tenth of a second, and so does reading
+    them back, so the by-store page reads only their counts (``counts``), kept beside them."""
+
+    def __init__(self, catalog: Catalog, derived, cache: Cache | None):
+        self.catalog, self.derived, self.cache = catalog, derived, cache
+        self._full: dict[str, dict] = {}
+        self._counts: dict[str, dict] = {}
+
+    def _name(self, key: str) -> str:
+        members = [(d.entry.id, d.entry.name, d.storage, d.entry.catalog.container) for d in self.derived
+                   if key in d.entry.catalog.locations and getattr(d, "storage", None) is not None]
+        return key_of("store-compatibility", code_version(), repr(self.catalog.locations[key]), repr(members))
+
+    def full(self, key: str) -> dict:
+        """The store's ``store_compatibility``."""
+        if key not in self._full:
+            name = self._name(key)
+            found = self.cache.get("compat", name) if self.cache is not None else None
+            if not isinstance(found, dict):
+                found = store_compatibility(self.catalog, self.derived, key)
+                if self.cache is not None:
+                    self.cache.put("compat", name, found)
+                    self.cache.put("compat-counts", name, compat_counts(found))
+            self._full[key] = found
+        return self._full[key]
+
+    def counts(self, key: str) -> dict:
+        """``compat_counts`` of the store's ``store_compatibility``."""
+        if key not in self._counts:
+            found = self.cache.get("compat-counts", self._name(key)) if self.cache is not None else None
+            self._counts[key] = found if isinstance(found, dict) else compat_counts(self.full(key))
+        return self._counts[key]
+
+
+def compat_counts(compat: dict) -> dict:
+    """How many pairs to keep separate and apart, store limits exceeded, and their total (``count``)."""
+    return {"count": compat["count"], "separate": len(compat["separate"]), "apart": len(compat["apart"]),
+            "limits": len(compat["limits"])}

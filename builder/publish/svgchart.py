@@ -14,7 +14,6 @@ Contents: ``vapor_curve_svg``; for the trends page ``boiling_vs_mass_svg`` (ever
 from __future__ import annotations
 
 import math
-from xml.sax.saxutils import escape
 
 from builder.core.units import celsius as kelvin_to_celsius
 from builder.publish.placement import Taken, place_names, text_width
@@ -31,6 +30,12 @@ SEGMENT_STYLE = {
     "estimated": ("6 3", 1.4, "#D55E00", "estimated from the boiling point"),
     "mixture": (None, 1.8, "#009E73", "mixture: bubble pressure from its components"),
 }
+
+
+def escape(text: str) -> str:
+    """Text for an SVG text node: &, < and > as entities (as xml.sax.saxutils.escape does, without
+    importing the XML package and urllib with it on every build)."""
+    return text.replace("&", "&amp;").replace("<", "&lt;").replace(">", "&gt;")
 
 
 def _n(x: float) -> str:

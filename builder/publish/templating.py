@@ -27,7 +27,6 @@ from builder.core.values import KINDS, Label, Value, computed
 from builder.derive.fire import NOTES_DISCLAIMER
 from builder.chem.solvency import CAUTION as SOLVENCY_CAUTION
 from builder.derive.forces import FORCE_WORDS
-from builder.publish.stores import store_compatibility
 from builder.publish.textsafe import short_path, visible
 from builder.publish.views import bands_in_numeric_order, card_notes, card_rows, health_codes, table_rows
 
@@ -98,11 +97,16 @@ def txy_path(entry_id: str) -> str:
     return f"charts/mixture-{entry_id}-txy.svg"
 
 
-def environment(templates: Path = TEMPLATES) -> jinja2.Environment:
+def environment(templates: Path = TEMPLATES, compiled: Path | None = None) -> jinja2.Environment:
+    """The Jinja environment of the site; ``compiled``: a folder (of the build cache) that keeps each
+    template's compiled code, checked against the template's text, so a process need not compile
+    the templates again (a tenth of a second or more per process)."""
     if not (templates / "base.html").exists():
         raise FileNotFoundError(f"templates not found in {templates}: install the project with 'pip install -e .'")
+    bytecode = jinja2.FileSystemBytecodeCache(str(compiled)) if compiled is not None else None
     env = jinja2.Environment(
         loader=jinja2.FileSystemLoader(str(templates)),
+        bytecode_cache=bytecode,
         autoescape=jinja2.select_autoescape(["html", "xml", "j2", "svg"], default=True, default_for_string=True),
         undefined=jinja2.StrictUndefined,
         trim_blocks=True,
@@ -119,10 +123,10 @@ def environment(templates: Path = TEMPLATES) -> jinja2.Environment:
                        NOTES_DISCLAIMER=NOTES_DISCLAIMER,
                        table_rows=table_rows, card_rows=card_rows, plain_name=plain_name,
                        card_notes=card_notes, health_codes=health_codes,
-                       store_compatibility=store_compatibility, OUTCOME_TEXT=OUTCOME_TEXT,
+                       OUTCOME_TEXT=OUTCOME_TEXT,
                        is_label=lambda v: isinstance(v, Label), boiling_validation=_boiling_validation(),
                        show=show_markup, word=word_markup, tag=tag_markup, value_or=value_or_markup,
-                       material_link=material_link_markup,
+                       material_link=material_link_markup, piece=piece_markup, substitute_names=substitute_names,
                        melting_validation=_stored_validation("melting_validation.json"),
                        small_validation=_stored_validation("boiling_small_validation.json"),
                        limits_validation=_stored_validation("flammability_validation.json"))
@@ -135,12 +139,16 @@ def value_label(name: str) -> str | None:
     return q.label if q else None
 
 
-def use_list(uses, url, labels: bool = True) -> Markup:
+def use_list(uses, url, labels: bool = True, pieces=None) -> Markup:
     """'Name (what it is used for); …' for the (derived, value name) pairs of a source or a method.
 
     Written here rather than with a macro per item: at a thousand materials these lists hold
-    tens of thousands of links.
+    tens of thousands of links. With ``pieces`` (the page's ``Pieces``), a list whose materials
+    and value names are unchanged is not written again.
     """
+    if pieces is not None:
+        shown = [(d.entry.id, d.entry.name, name) for d, name in uses]
+        return Markup(pieces.get(("uses", str(labels), shown), lambda: str(use_list(uses, url, labels))))
     out = []
     for d, name in uses:
         href = Markup.escape(url(short_path(f"materials/{d.entry.id}.html")))
@@ -223,6 +231,27 @@ def value_or_markup(context, v, missing="—", marked=False) -> Markup:
     if v is None:
         return Markup(f'<span class="none">{_out(missing)}</span>' if marked else _out(missing))
     return word_markup(context, v) if isinstance(v, Label) else show_markup(context, v)
+
+
+@jinja2.pass_context
+def piece_markup(context, macro: str, d, *extra) -> Markup:
+    """The piece ``macro`` of templates/pieces.html for material ``d`` (and ``extra``, its other
+    inputs), kept between builds under the entry's derive key (``context["pieces"]``, a
+    ``builder.publish.pieces.Pieces`` of this page; ``context["entry_keys"]``: derive keys by id)."""
+    pieces = context["pieces"]
+
+    def make() -> str:
+        if pieces.module is None:
+            pieces.module = context.environment.get_template("pieces.html").make_module(vars=context.get_all())
+        return str(getattr(pieces.module, macro)(d, *extra))
+
+    return Markup(pieces.get((macro, context["entry_keys"][d.entry.id], *extra), make))
+
+
+def substitute_names(subs, by_id) -> dict[str, str]:
+    """Each catalog material a list of substitutes names (alone or in a blend), id → name."""
+    ids = [i for c in subs for i in ([c.id] if c.id else [part for part, _ in c.blend])]
+    return {i: by_id[i].entry.name for i in ids}
 
 
 @jinja2.pass_context

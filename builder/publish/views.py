@@ -8,8 +8,7 @@ from __future__ import annotations
 import functools
 from pathlib import Path
 
-import yaml
-
+from builder.chem.datafile import load_yaml
 from builder.core.quantities import DERIVED_QUANTITIES
 from builder.derive.entry import Derived
 
@@ -77,7 +76,7 @@ CARD_NOTES_PATH = Path(__file__).resolve().parents[1] / "data" / "card_notes.yam
 
 @functools.lru_cache(maxsize=1)
 def _card_short_forms() -> dict[str, str]:
-    return yaml.safe_load(CARD_NOTES_PATH.read_text(encoding="utf-8")) or {}
+    return load_yaml(CARD_NOTES_PATH.read_text(encoding="utf-8")) or {}
 
 
 def card_notes(d: Derived) -> list[tuple[str, str]]:
