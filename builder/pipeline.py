@@ -8,13 +8,14 @@ folder and prints its printouts to PDF the same way.
 """
 from __future__ import annotations
 
+import gc
 import os
 import tempfile
 from dataclasses import dataclass
 from pathlib import Path
 from typing import TYPE_CHECKING
 
-from builder.core.cache import Cache, code_version, key_of, settings_key
+from builder.core.cache import Cache, code_version, collector_paused, key_of, settings_key
 from builder.core.diagnostics import CatalogError, Diagnostic
 from builder.core.output import (
     guard_target,
@@ -81,16 +82,33 @@ def build(entries_dir: Path, out: Path, waiting_message=None, jobs: int | None =
             tidy(Path(out), waiting_message)
             diags = tuple(Diagnostic(**d) for d in summary.get("diagnostics", []))
             return BuiltSite(None, None, diags, tuple(summary.get("files", ())), summary.get("entries", 0), True)
-    from builder.derive.catalog import available_cpus, derive_catalog
+    from builder.derive.catalog import derive_catalog
     from builder.load.entries import load_catalog
+
+    progress("load", 0, 1)
+    # reading (mostly from the cache) and deriving make millions of objects that live until the build
+    # ends, and no cyclic garbage (checked on the CRC catalog): the collector is paused meanwhile, then
+    # the catalog is set aside from it (gc.freeze) so it is not scanned again and again while the site
+    # is made, nor its memory pages touched by the forked writers; worker processes collect as usual
+    with collector_paused():
+        catalog, diagnostics = load_catalog(entries_dir, cache=cache)
+        if catalog is None:
+            raise CatalogError(diagnostics)
+        derived = derive_catalog(catalog, jobs=jobs, cache=cache, progress=lambda d, t: progress("derive", d, t))
+        gc.freeze()
+    try:
+        return _check_and_publish(entries_dir, out, key, summary, revision, catalog, diagnostics, derived,
+                                  waiting_message, jobs, cache, progress)
+    finally:
+        gc.unfreeze()
+
+
+def _check_and_publish(entries_dir, out, key, summary, revision, catalog, diagnostics, derived, waiting_message,
+                       jobs, cache, progress) -> BuiltSite:
+    from builder.derive.catalog import available_cpus
     from builder.publish.site import render_site
     from builder.review.plausibility import check_catalog
 
-    progress("load", 0, 1)
-    catalog, diagnostics = load_catalog(entries_dir, cache=cache)
-    if catalog is None:
-        raise CatalogError(diagnostics)
-    derived = derive_catalog(catalog, jobs=jobs, cache=cache, progress=lambda d, t: progress("derive", d, t))
     progress("check", 0, 1)
     findings = [f for d in derived for f in d.findings] + check_catalog(catalog, derived)
     all_diags = tuple(sorted(diagnostics + findings))

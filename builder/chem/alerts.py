@@ -41,7 +41,7 @@ from typing import Any, Iterable
 import yaml
 from rdkit import Chem, rdBase
 
-from builder.chem.datafile import ID_RE, DataFileError
+from builder.chem.datafile import ID_RE, DataFileError, load_yaml
 
 ALERTS_PATH = Path(__file__).resolve().parents[1] / "data" / "hazard_alerts.yaml"
 
@@ -187,7 +187,7 @@ def load_alerts(path: Path | str = ALERTS_PATH) -> tuple[AlertRule, ...]:
     """Read and validate an alerts file."""
     with open(path, encoding="utf-8") as fh:
         try:
-            data = yaml.safe_load(fh)
+            data = load_yaml(fh)
         except yaml.YAMLError as exc:
             raise AlertsError(str(path), [f"not valid YAML: {exc}"]) from exc
     return validate_alerts(data, str(path))

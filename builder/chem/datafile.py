@@ -26,3 +26,11 @@ class DataFileError(ValueError):
 
     def __str__(self) -> str:
         return "\n".join(f"{self.path}: {p}" for p in self.problems)
+
+
+def load_yaml(stream):
+    """A data file of ``builder/data`` as Python data: YAML read with libyaml's parser when PyYAML has
+    it (about ten times faster than the pure-Python one; the same safe constructor, so the same data)."""
+    import yaml
+
+    return yaml.load(stream, Loader=getattr(yaml, "CSafeLoader", yaml.SafeLoader))

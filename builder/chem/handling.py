@@ -54,7 +54,7 @@ from typing import Any
 import yaml
 
 from builder.chem.constants import T_ZERO_CELSIUS
-from builder.chem.datafile import ID_RE, DataFileError
+from builder.chem.datafile import ID_RE, DataFileError, load_yaml
 
 RULES_PATH = Path(__file__).resolve().parents[1] / "data" / "handling_rules.yaml"
 
@@ -274,7 +274,7 @@ def load_rules(path: Path | str = RULES_PATH) -> tuple[Rule, ...]:
     """Read and validate a rules file."""
     with open(path, encoding="utf-8") as fh:
         try:
-            data = yaml.safe_load(fh)
+            data = load_yaml(fh)
         except yaml.YAMLError as exc:
             raise RulesError(str(path), [f"not valid YAML: {exc}"]) from exc
     return validate_rules(data, str(path))

@@ -43,9 +43,10 @@ from functools import lru_cache
 from pathlib import Path
 from typing import Any
 
-import yaml
 from rdkit import Chem
 from rdkit.Chem import Descriptors
+
+from builder.chem.datafile import load_yaml
 
 GROUPS_PATH = Path(__file__).resolve().parent.parent / "data" / "hansen_groups.yaml"
 
@@ -58,7 +59,7 @@ the compounds the increments cover, measured with ``builder.fitting.hansen.densi
 def increments() -> dict[str, Any]:
     """Read and cache ``hansen_groups.yaml``."""
     with open(GROUPS_PATH, encoding="utf-8") as handle:
-        return yaml.safe_load(handle)
+        return load_yaml(handle)
 
 
 def atom_code(atom: Chem.Atom) -> str:

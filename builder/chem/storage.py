@@ -29,9 +29,7 @@ from functools import lru_cache
 from pathlib import Path
 from typing import Any, Iterable
 
-import yaml
-
-from builder.chem.datafile import DataFileError
+from builder.chem.datafile import DataFileError, load_yaml
 
 TABLE_PATH = Path(__file__).resolve().parents[1] / "data" / "storage_compatibility.yaml"
 
@@ -129,7 +127,7 @@ def validate_table(data: Any, path: str = "<table>") -> StorageTable:
 
 def load_table(path: Path | str = TABLE_PATH) -> StorageTable:
     with open(path, encoding="utf-8") as fh:
-        return validate_table(yaml.safe_load(fh), str(path))
+        return validate_table(load_yaml(fh), str(path))
 
 
 @lru_cache(maxsize=1)

@@ -14,14 +14,20 @@ import re
 from dataclasses import dataclass
 from pathlib import Path
 
-import yaml
-
 from builder.core.values import KINDS
 
 METHODS_PATH = Path(__file__).resolve().parents[1] / "data" / "methods.yaml"
 _FIELDS = ("id", "name", "plain", "kind", "summary", "reference", "equation", "applicability", "error", "estimator")
 _REQUIRED = ("id", "name", "plain", "kind", "summary", "reference")
 _CITE = re.compile(r"\{([a-z0-9-]+)\}")
+
+
+def _load_yaml(text: str):
+    """methods.yaml as data, read with libyaml's parser when PyYAML has it (``builder.chem.datafile.load_yaml``
+    does the same for the chemistry's data files; core may not import chem)."""
+    import yaml
+
+    return yaml.load(text, Loader=getattr(yaml, "CSafeLoader", yaml.SafeLoader))
 
 
 @dataclass(frozen=True)
@@ -47,7 +53,7 @@ class MethodsFileError(ValueError):
 
 def read_methods(path: Path = METHODS_PATH) -> tuple[dict[str, str], dict[str, Method]]:
     """The references (key → citation) and the methods (id → ``Method``) of ``path``, validated."""
-    data = yaml.safe_load(path.read_text(encoding="utf-8"))
+    data = _load_yaml(path.read_text(encoding="utf-8"))
     if not isinstance(data, dict) or set(data) != {"references", "methods"}:
         raise MethodsFileError(f"{path}: expected exactly the keys 'references' and 'methods'")
     references = data["references"]

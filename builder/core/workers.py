@@ -9,6 +9,7 @@ already gone; elsewhere workers end when they next find their task queue closed.
 """
 from __future__ import annotations
 
+import gc
 import multiprocessing
 import os
 import signal
@@ -19,6 +20,7 @@ _PR_SET_PDEATHSIG = 1
 
 
 def _end_with(parent: int) -> None:
+    gc.enable()  # the parent may have paused its collector while it read the cache (pipeline.build)
     if sys.platform.startswith("linux"):
         try:
             import ctypes

@@ -10,7 +10,13 @@ from __future__ import annotations
 import multiprocessing
 import os
 
-from builder.core.cache import Cache, code_version, key_of, settings_key
+from builder.core.cache import (
+    Cache,
+    code_version,
+    collector_paused,
+    key_of,
+    settings_key,
+)
 from builder.core.diagnostics import Diagnostic
 from builder.core.model import Catalog, Entry
 from builder.core.workers import fork_pool
@@ -18,6 +24,9 @@ from builder.derive.entry import Derived, derive_entry
 
 #: fewer entries to compute than this are not worth starting processes for
 MIN_PARALLEL = 6
+#: ... unless at least this many kept results are to be read meanwhile (reading a thousand takes a
+#: few tenths of a second, as long as computing one entry)
+MIN_OVERLAP = 200
 
 
 def available_cpus() -> int:
@@ -116,16 +125,9 @@ def derive_catalog(catalog: Catalog, jobs: int | None = 1, cache: Cache | None =
 
 
 def _run_stage(tasks, results, jobs, cache, state, total, progress) -> None:
-    found = [cache.get("derive", key) for *_, key in tasks]
-    todo = []
-    for task, hit in zip(tasks, found):
-        if hit is None:
-            todo.append(task)
-        else:
-            results[task[0].id] = hit
-    state["done"] += len(tasks) - len(todo)
-    if progress:
-        progress(state["done"], total)
+    """Derive ``tasks`` (entry, stores, components, key) into ``results``: each from the cache where it
+    is kept, else computed. With worker processes, the computing starts first, and the kept results
+    are read meanwhile (an edit of a large catalog computes one entry while reading all the others)."""
 
     def finished(task, derived, ok):
         results[task[0].id] = derived
@@ -135,12 +137,33 @@ def _run_stage(tasks, results, jobs, cache, state, total, progress) -> None:
         if progress:
             progress(state["done"], total)
 
-    if jobs > 1 and len(todo) >= MIN_PARALLEL and "fork" in multiprocessing.get_all_start_methods():
+    def read(kept) -> list:
+        """Fill ``results`` from the cache; returns the tasks whose result could not be read after all."""
+        unread = []
+        with collector_paused():
+            for task in kept:
+                hit = cache.get("derive", task[3])
+                if hit is None:
+                    unread.append(task)
+                else:
+                    results[task[0].id] = hit
+        state["done"] += len(kept) - len(unread)
+        if progress:
+            progress(state["done"], total)
+        return unread
+
+    present = [cache.has("derive", t[3]) for t in tasks]
+    kept = [t for t, here in zip(tasks, present) if here]
+    todo = [t for t, here in zip(tasks, present) if not here]
+    worth_it = len(todo) >= MIN_PARALLEL or (todo and len(kept) >= MIN_OVERLAP)
+    if jobs > 1 and worth_it and "fork" in multiprocessing.get_all_start_methods():
         with fork_pool(min(jobs, len(todo))) as pool:
             chunk = max(1, min(8, len(todo) // (jobs * 8)))
-            computed = pool.map(_derive_pair, [t[:3] for t in todo], chunksize=chunk)
+            computed = pool.map(_derive_pair, [t[:3] for t in todo], chunksize=chunk)  # submitted at once
+            unread = read(kept)
             for task, (derived, ok) in zip(todo, computed):
                 finished(task, derived, ok)
     else:
-        for task in todo:
-            finished(task, *derive_safely(*task[:3]))
+        unread = read(kept) + todo
+    for task in unread:
+        finished(task, *derive_safely(*task[:3]))

@@ -20,17 +20,16 @@ points and the highest vapor pressures are reported, with the nominal figure in 
 from __future__ import annotations
 
 import math
-from functools import lru_cache
-from pathlib import Path
 from collections.abc import Callable, Mapping, Sequence
 from dataclasses import dataclass, field, replace
-
-import yaml
+from functools import lru_cache
+from pathlib import Path
 
 from builder.chem import bands, exposure, handling, mixture_flash, unifac, vle
 from builder.chem import mixture as mix
 from builder.chem.alerts import Alert
 from builder.chem.constants import P_ATM
+from builder.chem.datafile import load_yaml
 from builder.chem.flexibility import vapor_structure
 from builder.chem.identity import parse_smiles
 from builder.chem.storage import Assignment, assign_group
@@ -145,7 +144,7 @@ _REFERENCE = Path(__file__).resolve().parents[1] / "data" / "reference_antoine.y
 
 @lru_cache(maxsize=1)
 def _reference_antoine() -> dict:
-    return yaml.safe_load(_REFERENCE.read_text(encoding="utf-8")) or {}
+    return load_yaml(_REFERENCE.read_text(encoding="utf-8")) or {}
 
 
 def _reference_psat(derived) -> tuple[Callable[[float], float], tuple, str] | None:

@@ -17,7 +17,7 @@ from pathlib import Path
 
 from builder.chem.identity import parse_smiles
 from builder.chem.storage import default_table
-from builder.core.cache import code_version, key_of, settings_key
+from builder.core.cache import code_version, collector_paused, key_of, settings_key
 from builder.core.diagnostics import Diagnostic, errors
 from builder.core.model import (
     PROVENANCE_OF_SOURCE,
@@ -699,6 +699,27 @@ def shown_path(path: Path) -> str:
         return str(path)
 
 
+def _shown_paths():
+    """``shown_path`` for many files of few folders: each folder and the working folder resolved once."""
+    try:
+        cwd = Path.cwd().resolve()
+    except OSError:
+        return shown_path
+    folders: dict[Path, Path] = {}
+
+    def shown(path: Path) -> str:
+        try:
+            path = Path(path)
+            parent = path.absolute().parent
+            if parent not in folders:
+                folders[parent] = parent.resolve()
+            return str((folders[parent] / path.name).relative_to(cwd))
+        except (ValueError, OSError):
+            return str(path)
+
+    return shown
+
+
 def entry_files(entries_dir: Path) -> list[Path]:
     return sorted(p for p in entries_dir.glob("*.y*ml") if p.name not in SPECIAL_FILES)
 
@@ -710,7 +731,7 @@ def read_bibliography(entries_dir: Path, root: str) -> tuple[dict, dict, list[Di
     return sources, locations, diagnostics + more
 
 
-def read_entries(files, sources: dict, locations: dict, shown=shown_path, root: Path | None = None,
+def read_entries(files, sources: dict, locations: dict, shown=None, root: Path | None = None,
                  cache=None) -> tuple[dict[str, Entry], list[Diagnostic], set[str]]:
     """Load each entry file: the entries that load (by id), every diagnostic, and the ids that did not.
 
@@ -725,31 +746,33 @@ def read_entries(files, sources: dict, locations: dict, shown=shown_path, root: 
     failed: set[str] = set()
     seen_at: dict[str, str] = {}
     files = list(files)
+    shown = shown or _shown_paths()
     stems = {Path(f).stem for f in files}
-    for path in files:
-        where = shown(path)
-        if path.suffix != ".yaml":
-            diagnostics.append(Diagnostic(where, 1, 1, "error", "entry files must end in .yaml"))
-            continue
-        if path.stem in seen_at:
-            diagnostics.append(Diagnostic(where, 1, 1, "error", f"duplicate entry id '{path.stem}'",
-                                          f"also in {seen_at[path.stem]}"))
-            continue
-        seen_at[path.stem] = where
-        text, probs = _read_file(path, where, Path(path).parent if root is None else root)
-        entry = None
-        if text is not None:
-            entry, probs = _load_cached(where, text, sources, locations, cache, context)
-        if path.stem.endswith(fmt.CHART_SUFFIX) and path.stem[:-len(fmt.CHART_SUFFIX)] in stems:
-            probs = [*probs, Diagnostic(where, 1, 1, "error", f"entry id '{path.stem}' would overwrite the "
-                                        f"vapor-pressure chart of entry '{path.stem[:-len(fmt.CHART_SUFFIX)]}'",
-                                        f"choose an id that does not end in '{fmt.CHART_SUFFIX}'")]
+    with collector_paused():  # most files come from the cache
+        for path in files:
+            where = shown(path)
+            if path.suffix != ".yaml":
+                diagnostics.append(Diagnostic(where, 1, 1, "error", "entry files must end in .yaml"))
+                continue
+            if path.stem in seen_at:
+                diagnostics.append(Diagnostic(where, 1, 1, "error", f"duplicate entry id '{path.stem}'",
+                                              f"also in {seen_at[path.stem]}"))
+                continue
+            seen_at[path.stem] = where
+            text, probs = _read_file(path, where, Path(path).parent if root is None else root)
             entry = None
-        diagnostics += probs
-        if entry is None:
-            failed.add(path.stem)
-        else:
-            entries[entry.id] = entry
+            if text is not None:
+                entry, probs = _load_cached(where, text, sources, locations, cache, context)
+            if path.stem.endswith(fmt.CHART_SUFFIX) and path.stem[:-len(fmt.CHART_SUFFIX)] in stems:
+                probs = [*probs, Diagnostic(where, 1, 1, "error", f"entry id '{path.stem}' would overwrite the "
+                                            f"vapor-pressure chart of entry '{path.stem[:-len(fmt.CHART_SUFFIX)]}'",
+                                            f"choose an id that does not end in '{fmt.CHART_SUFFIX}'")]
+                entry = None
+            diagnostics += probs
+            if entry is None:
+                failed.add(path.stem)
+            else:
+                entries[entry.id] = entry
     return entries, diagnostics, failed
 
 

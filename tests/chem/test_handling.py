@@ -232,3 +232,19 @@ def test_refrigerated_liquefied_gas_note():
     # liquid nitrogen in a dewar: CRC Tb 77.4 K, the store kept below it (UN GHS Rev. 10 ch. 2.5)
     got = ids({**GAS, "store_state_for_rules": "liquid", "gas_group": "refrigerated liquefied"})
     assert "refrigerated-liquefied-gas" in got and "liquefied-gas" not in got and "compressed-gas" not in got
+
+
+def test_data_files_read_the_same_with_either_yaml_parser():
+    """builder/data files are read with libyaml's parser when PyYAML has it (chem.datafile.load_yaml);
+    the safe constructor is the same, so the data must equal PyYAML's pure-Python reading."""
+    from pathlib import Path
+
+    import yaml
+
+    from builder.chem.datafile import load_yaml
+
+    files = sorted((Path(__file__).resolve().parents[2] / "builder" / "data").glob("*.yaml"))
+    assert len(files) >= 7
+    for path in files:
+        text = path.read_text(encoding="utf-8")
+        assert load_yaml(text) == yaml.safe_load(text), path.name
