@@ -12,7 +12,10 @@ points where that table has one) and times ``cohesion build`` as a whole process
 - floor: read every YAML file, parse each SMILES and write a trivial page (in-process),
   what any builder has to do at the least.
 
-Peak memory is the largest resident set of the build or any process it started.
+Peak memory is the largest resident set of the build or any process it started. The entries are
+spread over one store per ``STORE_SIZE`` of them (at least three; ``--store-size 0``: always three).
+Each row also gives a CPU reference, a fixed pure-Python loop timed in the same run, since the
+speed of a shared machine varies by half from one hour to the next.
 
 The CRC table holds some 4,700 usable compounds. Larger catalogs continue with structures from
 the PubChem identifier table shipped in ``chemicals`` (in its order; the boiling-point model's
@@ -21,7 +24,7 @@ boiling point: theirs is estimated, as for an in-house material. Python's byte-c
 first (``compileall``), as a normal installation does on first use (this machine's environment
 sets ``PYTHONDONTWRITEBYTECODE``, which would make every build compile the builder again).
 
-    python tools/bench_build.py --sizes 250,1000,3000 [--jobs N]
+    python tools/bench_build.py --sizes 250,1000,3000 [--jobs N] [--store-size N]
 
 Needs the test extra (``pip install -e '.[test]'``) for ``chemicals``.
 """
@@ -52,16 +55,25 @@ iec-60079-20-1:
   kind: standard
   year: 2010
 """
-LOCATIONS = """\
-store-a:
-  name: Bench store A
-  max_store_temperature: 30 °C
-store-b:
-  name: Bench store B
-store-c:
-  name: Bench store C
-  max_store_temperature: 40 °C
-"""
+#: materials per store: a generated catalog has one store for each so many entries (at least three),
+#: as a multi-site catalog has more stores rather than larger ones; the pairs of materials that must
+#: not share a store grow with the square of a store's size
+STORE_SIZE = 250
+#: the stores' temperature ratings, in turn (None: no rating recorded)
+RATINGS = ("30 °C", None, "40 °C")
+
+
+def store_count(n: int) -> int:
+    return max(3, -(-n // STORE_SIZE)) if STORE_SIZE else 3
+
+
+def locations_text(stores: int) -> str:
+    lines = []
+    for i in range(stores):
+        lines += [f"store-{i + 1:03d}:", f"  name: Bench store {i + 1}"]
+        if RATINGS[i % len(RATINGS)]:
+            lines.append(f"  max_store_temperature: {RATINGS[i % len(RATINGS)]}")
+    return "\n".join(lines) + "\n"
 
 #: a child process reports its own peak memory this way (ru_maxrss is in KiB on Linux)
 _RUNNER = ("import resource, sys; from builder.cli import main; code = main(sys.argv[1:]); "
@@ -131,9 +143,9 @@ def extra_rows(taken: list[dict], needed: int) -> list[dict]:
     return out
 
 
-def entry_text(row: dict, index: int, tb_shift: float = 0.0) -> str:
+def entry_text(row: dict, index: int, stores: int, tb_shift: float = 0.0) -> str:
     """An entry of the generated catalog; the edit of the benchmark moves its stated boiling point by ``tb_shift``."""
-    store = ("store-a", "store-b", "store-c")[index % 3]
+    store = f"store-{index % stores + 1:03d}"
     name = row["name"].replace('"', "'")
     code = f"B-{index:05d}"
     lines = [f'name: "{name}"', f"cas: {row['cas']}", f"smiles: '{row['smiles']}'", "catalog:",
@@ -147,15 +159,17 @@ def entry_text(row: dict, index: int, tb_shift: float = 0.0) -> str:
     return "\n".join(lines) + "\n"
 
 
-def write_catalog(folder: Path, rows: list[dict]) -> list[Path]:
+def write_catalog(folder: Path, rows: list[dict], stores: int | None = None) -> list[Path]:
+    """The catalog of ``rows`` in ``folder`` (``stores``: how many stores; by default ``store_count``)."""
+    stores = store_count(len(rows)) if stores is None else stores
     folder.mkdir(parents=True)
     (folder / "sources.yaml").write_text(SOURCES, encoding="utf-8")
-    (folder / "locations.yaml").write_text(LOCATIONS, encoding="utf-8")
+    (folder / "locations.yaml").write_text(locations_text(stores), encoding="utf-8")
     used: set[str] = set()
     paths = []
     for i, row in enumerate(rows):
         path = folder / f"{_slug(row['name'], used)}.yaml"
-        path.write_text(entry_text(row, i), encoding="utf-8")
+        path.write_text(entry_text(row, i, stores), encoding="utf-8")
         paths.append(path)
     return paths
 
@@ -194,6 +208,15 @@ def floor_seconds(entries: Path, out: Path) -> float:
     return time.perf_counter() - start
 
 
+def cpu_reference() -> float:
+    """Seconds for a fixed pure-Python loop: the machine's speed at the time (shared machines vary)."""
+    start = time.perf_counter()
+    total = 0
+    for i in range(10_000_000):
+        total += i
+    return time.perf_counter() - start
+
+
 def bench(n: int, rows: list[dict], jobs: int | None) -> dict:
     if n + 1 > len(rows):
         rows = rows + extra_rows(rows, n + 1 - len(rows))
@@ -210,12 +233,14 @@ def bench(n: int, rows: list[dict], jobs: int | None) -> dict:
         result["noop_s"], result["noop_peak_mb"] = timed_build(entries, out, env, jobs)
         result["check_s"], result["check_peak_mb"] = timed_build(entries, None, env, jobs)
         at = max(i for i in range(n // 2 + 1) if rows[i]["tb"] is not None)  # a CRC compound's boiling point
-        paths[at].write_text(entry_text(rows[at], at, tb_shift=1.0), encoding="utf-8")
+        paths[at].write_text(entry_text(rows[at], at, store_count(n), tb_shift=1.0), encoding="utf-8")
         result["edit_s"], result["edit_peak_mb"] = timed_build(entries, out, env, jobs)
         used = {p.stem for p in paths}
-        (entries / f"{_slug(rows[n]['name'], used)}.yaml").write_text(entry_text(rows[n], n), encoding="utf-8")
+        (entries / f"{_slug(rows[n]['name'], used)}.yaml").write_text(entry_text(rows[n], n, store_count(n)), encoding="utf-8")
         result["add_s"], result["add_peak_mb"] = timed_build(entries, out, env, jobs)
         result["floor_s"] = floor_seconds(entries, work / "floor")
+        result["cpu_ref_s"] = cpu_reference()
+        result["stores"] = store_count(n)
         result["peak_mb"] = max(result[k] for k in result if k.endswith("_peak_mb"))
         return result
 
@@ -225,20 +250,24 @@ def main(argv=None) -> int:
     p.add_argument("--sizes", default="250,1000", help="comma-separated catalog sizes (default 250,1000)")
     p.add_argument("--jobs", type=int, default=None, help="pass --jobs N to the build")
     p.add_argument("--json", action="store_true", help="print the results as JSON lines too")
+    p.add_argument("--store-size", type=int, default=STORE_SIZE,
+                   help=f"entries per store (default {STORE_SIZE}; 0: three stores whatever the size)")
     args = p.parse_args(argv)
+    globals()["STORE_SIZE"] = args.store_size
     import compileall
 
     compileall.compile_dir(str(ROOT / "builder"), quiet=1)
     rows = reference_rows()
     print(f"{len(rows)} reference compounds available (CRC organic table in chemicals); larger catalogs "
           "continue with structures from its PubChem identifier table")
-    header = (f"{'entries':>8} {'cold s':>8} {'no-op s':>8} {'1 edit s':>9} {'add 1 s':>8} {'check s':>8} "
-              f"{'peak MB':>8} {'floor s':>8}")
+    header = (f"{'entries':>8} {'stores':>7} {'cold s':>8} {'no-op s':>8} {'1 edit s':>9} {'add 1 s':>8} "
+              f"{'check s':>8} {'peak MB':>8} {'floor s':>8} {'cpu ref s':>9}")
     print(header)
     for n in (int(s) for s in args.sizes.split(",") if s.strip()):
         r = bench(n, rows, args.jobs)
-        print(f"{r['entries']:>8} {r['cold_s']:>8.1f} {r['noop_s']:>8.2f} {r['edit_s']:>9.2f} {r['add_s']:>8.2f} "
-              f"{r['check_s']:>8.2f} {r['peak_mb']:>8.0f} {r['floor_s']:>8.2f}", flush=True)
+        print(f"{r['entries']:>8} {r['stores']:>7} {r['cold_s']:>8.1f} {r['noop_s']:>8.2f} {r['edit_s']:>9.2f} "
+              f"{r['add_s']:>8.2f} {r['check_s']:>8.2f} {r['peak_mb']:>8.0f} {r['floor_s']:>8.2f} "
+              f"{r['cpu_ref_s']:>9.2f}", flush=True)
         if args.json:
             print(json.dumps(r))
     return 0
