@@ -11,7 +11,7 @@ from html import unescape
 import pytest
 
 from builder.chem.forces import n_alkane_boiling_point
-from builder.publish import placement, svgchart
+from builder.publish import placement, solvency_chart, svgchart
 
 _NAME = re.compile(r'<text x="([-\d.]+)" y="([-\d.]+)"(?: text-anchor="(\w+)")?>([^<]*)</text>')
 
@@ -75,6 +75,39 @@ def test_a_long_series_title_is_wrapped_not_cut():
     assert all(placement.text_width(unescape(x), 9.0) <= svgchart.SERIES_WIDTH for x in lines)
 
 
+def _liquids(n=120, seed=5):
+    """(Derived-like, (δD, δP, δH)) of ``n`` invented liquids and one invented resin sphere."""
+    from types import SimpleNamespace
+
+    rng = random.Random(seed)
+    forces = ("dispersion", "dipole-dipole", "hydrogen-bonding", None)
+    rows = []
+    for i in range(n):
+        force = forces[i % 4]
+        d = SimpleNamespace(entry=SimpleNamespace(name=f"Liquid {i}"),
+                            label=lambda key, f=force: SimpleNamespace(code=f) if f else None)
+        rows.append((d, (rng.uniform(14.0, 20.0), rng.uniform(0.0, 14.0), rng.uniform(0.0, 22.0))))
+    resin = SimpleNamespace(entry=SimpleNamespace(name="Resin R-1"))
+    return rows, [(resin, SimpleNamespace(delta_d=17.0, delta_p=6.0, delta_h=6.0, radius=5.0))]
+
+
+def test_crowded_solvency_map_names_do_not_overlap_or_leave_the_axes():
+    from xml.etree import ElementTree
+
+    liquids, spheres = _liquids()
+    svg = solvency_chart.solvency_map_svg(liquids, spheres)
+    ElementTree.fromstring(svg)  # well-formed
+    assert svg.startswith("<svg") and "<title>The catalog's liquids" in svg  # the text alternative
+    boxes = _names(svg, svgchart.NAME_SIZE_SMALL)
+    _assert_clear(boxes, _frame(svg))
+    assert len(boxes) >= 30  # room is used, not given up
+    for shape, colour, _words in svgchart.FORCE_MARKS.values():
+        if shape != "diamond":  # no ionic liquid among them
+            assert f'fill="{colour}" fill-opacity="0.85"' in svg, colour
+    assert svg.count("<ellipse ") == 1 and "Resin R-1 (sphere)" in svg
+    assert solvency_chart.solvency_map_svg(liquids, spheres) == svg  # same data, same bytes
+
+
 @pytest.mark.browser
 def test_names_as_chromium_draws_them_do_not_overlap(browser, tmp_path):
     """The widths the placement assumes hold for the fonts a browser really uses: every name's
@@ -84,7 +117,8 @@ def test_names_as_chromium_draws_them_do_not_overlap(browser, tmp_path):
               "series.svg": (svgchart.series_svg("Methanol → Hexan-1-ol", [
                   ("Methanol", 1, 337.8), ("Ethanol", 2, 351.4), ("Propan-1-ol", 3, 370.3),
                   ("Butan-1-ol", 4, 390.8), ("Pentan-1-ol", 5, 411.1), ("Hexan-1-ol", 6, 430.2)]),
-                  svgchart.NAME_SIZE)}
+                  svgchart.NAME_SIZE),
+              "solvency.svg": (solvency_chart.solvency_map_svg(*_liquids(200, seed=8)), svgchart.NAME_SIZE_SMALL)}
     page = browser.new_page()
     try:
         for name, (svg, size) in charts.items():

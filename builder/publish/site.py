@@ -18,7 +18,7 @@ from builder.derive.entry import Derived
 from builder.derive.forces import FORCE_WORDS
 from builder.derive.links import Link, cross_links, homologous_series
 from builder.derive.solvency import params_of, solvency_relations, solvent_of
-from builder.publish import exports, svgchart
+from builder.publish import exports, solvency_chart, svgchart
 from builder.publish.pieces import Pieces
 from builder.publish.revision import Revision
 from builder.publish.stores import KeptCompatibility, store_sheet
@@ -166,7 +166,7 @@ def render_site(catalog: Catalog, derived: tuple[Derived, ...], out: Path, diagn
     plotted = repr([(d.entry.id, d.entry.name, p, d.label("dominant_force").code if d.label("dominant_force") else None)
                     for d, p in solvents]) + repr([(d.entry.name, sph) for d, sph in resins])
     wide.append(lambda w: w.made("charts/solvency-map.svg", key_of(base, "solvency-map", plotted),
-                                 lambda: _charts().solvency_map_svg(solvents, resins)))
+                                 lambda: solvency_chart.solvency_map_svg(solvents, resins)))
     wide.append(lambda w: listing(w, "solvency.html", "solvency.html", whole, solvents=solvents, spheres=resins,
                                   relations=relations))
     # which values cite each source and use each method: worked out by the worker that writes the page
@@ -238,8 +238,8 @@ def spheres(derived) -> list:
 
 
 def _charts():
-    """The matplotlib charts (the solvency map, T-x-y diagrams), imported only when one is drawn:
-    importing matplotlib takes about half a second, and most incremental builds draw neither."""
+    """The matplotlib charts (the T-x-y diagrams of binary mixtures), imported only when one is drawn:
+    importing matplotlib takes about half a second, and most incremental builds draw none."""
     from builder.publish import charts
 
     return charts
