@@ -169,9 +169,15 @@ def render_site(catalog: Catalog, derived: tuple[Derived, ...], out: Path, diagn
                                  lambda: solvency_chart.solvency_map_svg(solvents, resins)))
     wide.append(lambda w: listing(w, "solvency.html", "solvency.html", whole, solvents=solvents, spheres=resins,
                                   relations=relations))
-    # which values cite each source and use each method: worked out by the worker that writes the page
-    wide.append(lambda w: listing(w, "sources.html", "sources.html", whole, sources_used=_uses(catalog, derived)[0]))
-    wide.append(lambda w: listing(w, "methods.html", "methods.html", whole, methods_used=_uses(catalog, derived)[1]))
+
+    def sources_and_methods(w):
+        """Which values cite each source and use each method, worked out once by the worker that
+        writes both pages."""
+        by_source, by_method = _uses(catalog, derived)
+        listing(w, "sources.html", "sources.html", whole, sources_used=by_source)
+        listing(w, "methods.html", "methods.html", whole, methods_used=by_method)
+
+    wide.append(sources_and_methods)
     wide.append(lambda w: w.page("build.html", "build.html", key=key_of(whole, repr(revision)),
                                  diagnostics=diagnostics, revision=revision, **common))
     cards_per_page = 8
