@@ -118,10 +118,8 @@ class Cache:
             self.misses += 1
             return None
         path = self._path(kind, key)
-        collecting = gc.isenabled()
-        gc.disable()  # see ``collector_paused``
         try:
-            with open(path, "rb") as fh:
+            with open(path, "rb") as fh, collector_paused():
                 value = pickle.load(fh)
         except FileNotFoundError:
             self.misses += 1
@@ -131,9 +129,6 @@ class Cache:
             if self.notes:
                 self.notes(f"cache: ignoring unreadable {path} ({type(exc).__name__}); recomputing")
             return None
-        finally:
-            if collecting:
-                gc.enable()
         self.hits += 1
         return value
 

@@ -277,22 +277,15 @@ def _merged(me, old: tuple, arrivals: list, solvents: dict, safety: dict) -> tup
     """``old`` (a liquid's substitutes) with those of ``arrivals`` that pass its filter, in the
     ranking's order, the first ``SHOWN_SUBSTITUTES`` kept."""
     mine = safety[me.id]
-    entering = []
-    for s in arrivals:
-        if s.id == me.id or not safety[s.id] < mine:
-            continue
-        ra = solvency.hansen_distance(s.hansen, me.hansen)
-        if ra > DEFAULT_MAX_RA:
-            continue
-        better, worse = solvency.compare(s, me)
-        if better:
-            entering.append((solvency.safety_key(s, ra), solvency.Candidate(s.id, (), tuple(s.hansen), round(ra, 3),
-                                                                              better, worse)))
+    safer = [s for s in arrivals if s.id != me.id and safety[s.id] < mine]
+    entering = [c for c in solvency.iter_substitutes(me, safer, DEFAULT_MAX_RA) if c.better]
     if not entering:
         return old
-    staying = [(solvency.safety_key(solvents[c.id], solvency.hansen_distance(solvents[c.id].hansen, me.hansen)), c)
-               for c in old]
-    return tuple(c for _, c in sorted(staying + entering, key=lambda item: item[0])[:SHOWN_SUBSTITUTES])
+
+    def order(c) -> tuple:  # the ranking's sort key, from the unrounded distance
+        return solvency.safety_key(solvents[c.id], solvency.hansen_distance(solvents[c.id].hansen, me.hansen))
+
+    return tuple(sorted((*old, *entering), key=order)[:SHOWN_SUBSTITUTES])
 
 
 def _relations(derived, solvents: dict) -> Relations:

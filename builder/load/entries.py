@@ -693,10 +693,7 @@ def shown_path(path: Path) -> str:
 
     The folder is resolved, the name kept: a symbolic link is shown as itself, not as its target.
     """
-    try:
-        return str((path.absolute().parent.resolve() / path.name).relative_to(Path.cwd().resolve()))
-    except (ValueError, OSError):
-        return str(path)
+    return _shown_paths()(path)
 
 
 def _shown_paths():
@@ -704,7 +701,7 @@ def _shown_paths():
     try:
         cwd = Path.cwd().resolve()
     except OSError:
-        return shown_path
+        cwd = None
     folders: dict[Path, Path] = {}
 
     def shown(path: Path) -> str:
@@ -713,6 +710,8 @@ def _shown_paths():
             parent = path.absolute().parent
             if parent not in folders:
                 folders[parent] = parent.resolve()
+            if cwd is None:
+                return str(path)
             return str((folders[parent] / path.name).relative_to(cwd))
         except (ValueError, OSError):
             return str(path)

@@ -18,7 +18,8 @@ KIND = "pieces"
 
 
 class Pieces:
-    """The pieces of one catalog-wide file: ``get(key, make)`` returns the kept text or ``make()``."""
+    """The pieces of one catalog-wide file: ``get(parts, make)`` returns the text kept under the key of
+    ``parts``, or ``make()``."""
 
     def __init__(self, cache: Cache | None, base: str, path: str):
         self.cache = cache

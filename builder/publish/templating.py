@@ -249,7 +249,7 @@ def piece_markup(context, macro: str, d, *extra) -> Markup:
 
 
 def substitute_names(subs, by_id) -> dict[str, str]:
-    """Each catalog material a list of substitutes names (alone or in a blend), id → name."""
+    """The name of every catalog material that a list of substitutes names (alone or in a blend), by id."""
     ids = [i for c in subs for i in ([c.id] if c.id else [part for part, _ in c.blend])]
     return {i: by_id[i].entry.name for i in ids}
 
