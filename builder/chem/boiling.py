@@ -89,6 +89,7 @@ from functools import lru_cache
 from pathlib import Path
 from typing import Any
 
+import numpy as np
 from rdkit import Chem
 from rdkit.Chem import Crippen, GraphDescriptors, rdMolDescriptors
 
@@ -388,6 +389,61 @@ def _charges_are_n_oxide_pairs(mol: Chem.Mol) -> bool:
     return True
 
 
+class _FlatTrees:
+    """Every tree's nodes in one array, so that one set of array operations walks all trees.
+
+    Node ``g`` (splits and leaves of all trees, tree after tree) sends ``x`` to
+    ``step[2 g + 1]`` when ``x[feature[g]] <= threshold[g]``, else to ``step[2 g]``; a leaf
+    steps to itself, so after ``depth`` steps every walk has reached its leaf.
+    """
+
+    def __init__(self, trees: list[tuple]) -> None:
+        feature, threshold, step, value, start = [], [], [], [], []
+        depth = 0
+        for splits, cuts, left, right, leaf in trees:
+            base, first_leaf = len(feature), len(feature) + len(splits)
+            start.append(base if splits else first_leaf)  # a tree without splits is its leaf 0
+            for i in range(len(splits)):
+                feature.append(splits[i])
+                threshold.append(cuts[i])
+                for child in (right[i], left[i]):
+                    step.append(base + child if child >= 0 else first_leaf + ~child)
+                value.append(0.0)
+            for k, v in enumerate(leaf):
+                feature.append(0)
+                threshold.append(0.0)
+                step += [first_leaf + k, first_leaf + k]
+                value.append(v)
+            depth = max(depth, _depth(left, right))
+        self.feature = np.array(feature, dtype=np.intp)
+        self.threshold = np.array(threshold, dtype=float)
+        self.step = np.array(step, dtype=np.intp)
+        self.value = np.array(value, dtype=float)
+        self.start = np.array(start, dtype=np.intp)
+        self.depth = depth
+
+    def total(self, x: list[float]) -> float:
+        if not len(self.start):
+            return 0.0
+        goes_left = (np.asarray(x, dtype=float)[self.feature] <= self.threshold).astype(np.intp)
+        node = self.start
+        for _ in range(self.depth):
+            node = self.step[2 * node + goes_left[node]]
+        return float(np.cumsum(self.value[node])[-1])
+
+
+def _depth(left: list[int], right: list[int]) -> int:
+    """Splits on the longest path from the root to a leaf (0 for a tree that is one leaf)."""
+    if not left:
+        return 0
+    deepest, todo = 0, [(0, 1)]
+    while todo:
+        node, level = todo.pop()
+        deepest = max(deepest, level)
+        todo += [(child, level + 1) for child in (left[node], right[node]) if child >= 0]
+    return deepest
+
+
 class TreeModel:
     """Fitted residual trees read from ``boiling_model.json``."""
 
@@ -397,6 +453,7 @@ class TreeModel:
         self.trees = [
             (t["feature"], t["threshold"], t["left"], t["right"], t["leaf"]) for t in data["trees"]
         ]
+        self._flat = _FlatTrees(self.trees)
         self.bands = data["uncertainty"]["heavy_atom_bands"]
         self.stereo_correction = data.get("stereo_correction")
 
@@ -411,14 +468,12 @@ class TreeModel:
         return row
 
     def residual(self, x: list[float]) -> float:
-        """Return the sum of the tree outputs for feature vector ``x`` [K]."""
-        total = 0.0
-        for feature, threshold, left, right, leaf in self.trees:
-            node = 0 if feature else -1
-            while node >= 0:
-                node = left[node] if x[feature[node]] <= threshold[node] else right[node]
-            total += leaf[~node]
-        return total
+        """Return the sum of the tree outputs for feature vector ``x`` [K].
+
+        All trees are walked together (``_FlatTrees``) and their leaves added in tree order,
+        one after another, so the sum is the float a walk of one tree at a time gives.
+        """
+        return self._flat.total(x)
 
     def band(self, heavy_atoms: int) -> dict[str, Any]:
         """Return the uncertainty band holding ``heavy_atoms``."""

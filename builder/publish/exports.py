@@ -16,15 +16,21 @@ from builder.core.quantities import DERIVED_QUANTITIES, DerivedQuantity
 from builder.core.units import to_display
 from builder.derive.entry import Derived
 from builder.derive.serialize import entry_json
-from builder.publish.textsafe import csv_text_cell, short_path, visible_data
+from builder.publish.textsafe import BIDI_CONTROLS, csv_text_cell, short_path, visible_data
 
 FORMAT = "cohesion-catalog"
 FORMAT_VERSION = 1
 
 
+#: how ``json.dumps(..., ensure_ascii=True)`` writes each bidirectional control character
+_BIDI_ESCAPES = tuple(f"\\u{ord(c):04x}" for c in BIDI_CONTROLS)
+
+
 def safe_json(data, indent: int | None = None) -> str:
     """JSON that is safe inside HTML and script files (no raw <, > or &; bidi controls made visible)."""
-    text = json.dumps(visible_data(data), ensure_ascii=True, sort_keys=True, indent=indent)
+    text = json.dumps(data, ensure_ascii=True, sort_keys=True, indent=indent)
+    if any(escape in text for escape in _BIDI_ESCAPES):  # some string holds one (or the text of its escape)
+        text = json.dumps(visible_data(data), ensure_ascii=True, sort_keys=True, indent=indent)
     return text.replace("<", "\\u003c").replace(">", "\\u003e").replace("&", "\\u0026")
 
 
