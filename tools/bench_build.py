@@ -20,7 +20,9 @@ speed of a shared machine varies by half from one hour to the next.
 The CRC table holds some 4,700 usable compounds. Larger catalogs continue with structures from
 the PubChem identifier table shipped in ``chemicals`` (in its order; the boiling-point model's
 domain, at most ``MAX_EXTRA_HEAVY_ATOMS`` heavy atoms, one entry per structure), which state no
-boiling point: theirs is estimated, as for an in-house material. Python's byte-code is compiled
+boiling point: theirs is estimated, as for an in-house material. They are taken with the CRC
+table's spread of molecule sizes (``size_quotas``), so that 10,000 entries cost ten times 1,000
+only if the build scales linearly, not more because the molecules got bigger. Python's byte-code is compiled
 first (``compileall``), as a normal installation does on first use (this machine's environment
 sets ``PYTHONDONTWRITEBYTECODE``, which would make every build compile the builder again).
 
@@ -116,9 +118,27 @@ def reference_rows() -> list[dict]:
 MAX_EXTRA_HEAVY_ATOMS = 30
 
 
+def size_quotas(taken: list[dict], needed: int) -> dict[int, int]:
+    """How many of ``needed`` extra compounds to take of each heavy-atom count: the shares of ``taken``
+    (largest remainders), so that a larger catalog holds molecules of the same sizes and its time per
+    entry measures the build, not a change of molecules (3D work grows with the square of the size)."""
+    from rdkit import Chem
+
+    sizes: dict[int, int] = {}
+    for r in taken:
+        h = Chem.MolFromSmiles(r["smiles"]).GetNumHeavyAtoms()
+        sizes[h] = sizes.get(h, 0) + 1
+    exact = {h: needed * c / len(taken) for h, c in sizes.items()}
+    quota = {h: int(v) for h, v in exact.items()}
+    for h in sorted(exact, key=lambda h: (-(exact[h] - quota[h]), h))[:needed - sum(quota.values())]:
+        quota[h] += 1
+    return quota
+
+
 def extra_rows(taken: list[dict], needed: int) -> list[dict]:
     """``needed`` more compounds from the PubChem identifier table of ``chemicals`` (no stated
-    boiling point), none with a structure among ``taken``."""
+    boiling point), none with a structure among ``taken``: as many of each heavy-atom count as
+    ``size_quotas`` asks while the table has them, then the rest in table order."""
     import chemicals
     from rdkit import Chem, RDLogger
 
@@ -127,7 +147,8 @@ def extra_rows(taken: list[dict], needed: int) -> list[dict]:
     RDLogger.DisableLog("rdApp.*")
     table = Path(chemicals.__file__).parent / "Identifiers" / "chemical identifiers pubchem large.tsv"
     seen = {Chem.MolToInchiKey(Chem.MolFromSmiles(r["smiles"])) for r in taken}
-    out = []
+    quota = size_quotas(taken, needed) if taken else None
+    chosen, spare = [], []  # (place in the table, row)
     with open(table, encoding="utf-8") as handle:
         for line in handle:
             cells = line.rstrip("\n").split("\t")
@@ -137,10 +158,18 @@ def extra_rows(taken: list[dict], needed: int) -> list[dict]:
             if mol is None or mol.GetNumHeavyAtoms() > MAX_EXTRA_HEAVY_ATOMS or check_structure(mol) != "OK":
                 continue
             seen.add(cells[6])
-            out.append({"cas": cells[1], "name": cells[7] or cells[8], "smiles": cells[4], "tb": None, "flash": None})
-            if len(out) == needed:
-                break
-    return out
+            row = {"cas": cells[1], "name": cells[7] or cells[8], "smiles": cells[4], "tb": None, "flash": None}
+            place, h = len(chosen) + len(spare), mol.GetNumHeavyAtoms()
+            if quota is None or quota.get(h, 0) > 0:
+                if quota is not None:
+                    quota[h] -= 1
+                chosen.append((place, row))
+                if len(chosen) == needed:
+                    break
+            else:
+                spare.append((place, row))
+    chosen += spare[:needed - len(chosen)]
+    return [row for _, row in sorted(chosen, key=lambda item: item[0])]
 
 
 def entry_text(row: dict, index: int, stores: int, tb_shift: float = 0.0) -> str:

@@ -16,7 +16,12 @@ from builder.core.quantities import DERIVED_QUANTITIES, DerivedQuantity
 from builder.core.units import to_display
 from builder.derive.entry import Derived
 from builder.derive.serialize import entry_json
-from builder.publish.textsafe import BIDI_CONTROLS, csv_text_cell, short_path, visible_data
+from builder.publish.textsafe import (
+    BIDI_CONTROLS,
+    csv_text_cell,
+    short_path,
+    visible_data,
+)
 
 FORMAT = "cohesion-catalog"
 FORMAT_VERSION = 1

@@ -59,26 +59,32 @@ def test_hand_made_trees_leaves_ties_and_nan():
     assert model.residual([math.nan, 0.0]) == 2.5 - 10.0 + 0.2   # NaN fails every "<=" test
 
 
+def random_tree(rng: random.Random, depth: int) -> tuple[list, list, list, list, list]:
+    """A tree in the shipped layout: split ``i`` at ``feature[i] <= threshold[i]``, children
+    ``left[i]``/``right[i]`` (a split's index, or ``~k`` for leaf ``k``)."""
+    feature, threshold, left, right, leaves = [], [], [], [], []
+
+    def grow(depth: int) -> int:
+        if depth == 0 or rng.random() < 0.3:
+            leaves.append(rng.uniform(-5, 5))
+            return ~(len(leaves) - 1)
+        i = len(feature)
+        feature.append(rng.randrange(4))
+        threshold.append(rng.uniform(-1, 1))
+        left.append(0)
+        right.append(0)
+        left[i] = grow(depth - 1)
+        right[i] = grow(depth - 1)
+        return i
+
+    grow(depth)
+    return feature, threshold, left, right, leaves
+
+
 def test_random_trees():
     rng = random.Random(7)
     for _ in range(50):
-        trees = []
-        for _t in range(rng.randint(0, 30)):
-            feature, threshold, left, right, leaves = [], [], [], [], []
-
-            def grow(depth):
-                if depth == 0 or rng.random() < 0.3:
-                    leaves.append(rng.uniform(-5, 5))
-                    return ~(len(leaves) - 1)
-                i = len(feature)
-                feature.append(rng.randrange(4)); threshold.append(rng.uniform(-1, 1))
-                left.append(0); right.append(0)
-                left[i] = grow(depth - 1)
-                right[i] = grow(depth - 1)
-                return i
-
-            grow(rng.randint(0, 8))
-            trees.append((feature, threshold, left, right, leaves))
+        trees = [random_tree(rng, rng.randint(0, 8)) for _t in range(rng.randint(0, 30))]
         model = model_of(trees)
         for _x in range(20):
             x = [rng.uniform(-1.2, 1.2) for _ in range(4)]
