@@ -38,9 +38,9 @@ from functools import lru_cache
 from pathlib import Path
 
 from rdkit import Chem
-from rdkit.Chem import Descriptors
 
 from builder.chem.features import hbond_acceptors, hbond_donors, polar_bonds
+from builder.chem.molar_mass import molar_mass
 from builder.chem.shape import polarizability
 
 MODEL_PATH = Path(__file__).resolve().parent.parent / "data" / "boiling_small_model.json"
@@ -87,7 +87,7 @@ def small_features(mol: Chem.Mol) -> list[float]:
     count = lambda numbers: float(sum(1 for at in with_h.GetAtoms() if at.GetAtomicNum() in numbers))  # noqa: E731
     return [ln_alpha, math.log(max(electrons, 1)), float(mol.GetNumHeavyAtoms()),
             float(d), float(a), float(d * a), float(len(polar_bonds(mol))),
-            1.0 if with_h.GetNumAtoms() == 1 else 0.0, math.log(Descriptors.MolWt(mol)),
+            1.0 if with_h.GetNumAtoms() == 1 else 0.0, math.log(molar_mass(mol)),
             count((1,)), count((9, 17, 35, 53)), count((8,)), ln_alpha * ln_alpha]
 
 

@@ -84,7 +84,7 @@ from typing import Any
 
 import numpy as np
 from rdkit import Chem, rdBase
-from rdkit.Chem import AllChem, Descriptors, rdForceFieldHelpers
+from rdkit.Chem import AllChem, rdForceFieldHelpers
 
 from builder.chem.structure3d import (
     TEMPERATURE_K,
@@ -364,7 +364,7 @@ def ensemble_dipole(ensemble: ConformerEnsemble, *, charges: str = "auto") -> Di
             0.0, 0.0, "single atom", "a free atom has no dipole moment (spherical symmetry)",
             (0.0,), (1.0,),
         )
-    if Descriptors.NumRadicalElectrons(mol):
+    if any(atom.GetNumRadicalElectrons() for atom in mol.GetAtoms()):
         return DipoleEstimate(None, None, METHOD_MMFF,
                               "radical: open-shell molecules are outside the charge models' range")
     q, method, status = _charges(mol, "mmff" if charges == "auto" else charges)

@@ -14,9 +14,9 @@ from dataclasses import dataclass
 from functools import lru_cache
 
 from rdkit import Chem
-from rdkit.Chem import Descriptors
 
 from builder.chem import vapor
+from builder.chem.molar_mass import molar_mass
 
 #: elements the estimation routes were measured on (C, H, N, O, S, halogens)
 ORGANIC_ELEMENTS = frozenset({1, 6, 7, 8, 9, 15, 16, 17, 35, 53})
@@ -82,7 +82,7 @@ def vapor_structure(mol: Chem.Mol) -> VaporStructure | None:
     n_cooh = len(mol.GetSubstructMatches(_COOH))
     n_oh = len(mol.GetSubstructMatches(_OH)) - n_cooh
     n_nh2 = len(mol.GetSubstructMatches(_NH2))
-    mm = Descriptors.MolWt(mol)
+    mm = molar_mass(mol)
     return VaporStructure(
         tau=vapor.flexibility_tau(sp3, sp2, _ring_systems(mol)),
         hbn=vapor.hydrogen_bond_number(n_oh, n_cooh, n_nh2, mm),

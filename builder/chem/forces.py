@@ -60,7 +60,6 @@ from pathlib import Path
 
 import numpy as np
 from rdkit import Chem
-from rdkit.Chem import Descriptors
 
 from builder.chem.dipole import POLAR_THRESHOLD_D, DipoleEstimate, ensemble_dipole
 from builder.chem.features import (
@@ -72,6 +71,7 @@ from builder.chem.features import (
     largest_fragment,
     polar_bonds,
 )
+from builder.chem.molar_mass import molar_mass
 from builder.chem.shape import (
     electron_count,
     polarizability,
@@ -266,8 +266,8 @@ def force_profile(mol_or_smiles: str | Chem.Mol, boiling_point_K: float | None =
         masses = np.array([a.GetMass() for a in ensemble.mol.GetAtoms()])
         npr1, npr2 = principal_moment_ratios(ensemble.coordinates(cid), masses)
     shape = shape_class(npr1, npr2) if npr1 is not None else None
-    molar_mass = Descriptors.MolWt(mol)
-    excess, excess_note = _force_excess(boiling_point_K, molar_mass)
+    mass = molar_mass(mol)
+    excess, excess_note = _force_excess(boiling_point_K, mass)
 
     polar = dipole.value_D is not None and dipole.value_D > POLAR_THRESHOLD_D
     hbond = donors > 0 and acceptors > 0
@@ -296,7 +296,7 @@ def force_profile(mol_or_smiles: str | Chem.Mol, boiling_point_K: float | None =
         electron_count=n_electrons, polarizability_A3=alpha, dipole_D=dipole.value_D,
         dipole_uncertainty_D=dipole.uncertainty_D, dipole_method=dipole.method,
         hbond_donors=donors, hbond_acceptors=acceptors, npr1=npr1, npr2=npr2, shape=shape,
-        surface_area_A2=surface_area(Chem.AddHs(mol)), molar_mass_g_mol=molar_mass,
+        surface_area_A2=surface_area(Chem.AddHs(mol)), molar_mass_g_mol=mass,
         boiling_point_K=boiling_point_K, force_excess_K=excess,
         methods=dict(_METHODS, dipole_D=dipole.method), kinds=dict(_KINDS), notes=notes,
         not_computed=not_computed, polar_bonds=tuple(polar_bonds(mol)),
@@ -372,7 +372,7 @@ def _force_excess(boiling_point_K: float | None, molar_mass: float) -> tuple[flo
 def _alkane_table() -> tuple[np.ndarray, np.ndarray]:
     """Return (molar masses [g/mol], boiling points [K]) of the tabulated n-alkanes."""
     data = json.loads(_DATA.read_text(encoding="utf-8"))["data"]
-    masses = [Descriptors.MolWt(Chem.MolFromSmiles("C" * row["carbons"])) for row in data]
+    masses = [molar_mass(Chem.MolFromSmiles("C" * row["carbons"])) for row in data]
     return np.array(masses), np.array([row["boiling_point_K"] for row in data])
 
 

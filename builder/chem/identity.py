@@ -16,9 +16,9 @@ from dataclasses import dataclass
 from functools import lru_cache
 
 from rdkit import Chem, rdBase
-from rdkit.Chem import Descriptors, rdMolDescriptors
-from rdkit.Chem.Draw import rdMolDraw2D
+from rdkit.Chem import rdMolDescriptors
 
+from builder.chem.molar_mass import molar_mass
 from builder.chem.shape import electron_count
 
 rdBase.LogToPythonLogger()
@@ -130,7 +130,7 @@ def identify(smiles: str) -> Identity:
     return Identity(
         smiles=Chem.MolToSmiles(mol),
         formula=rdMolDescriptors.CalcMolFormula(mol),
-        molar_mass=Descriptors.MolWt(mol),
+        molar_mass=molar_mass(mol),
         inchi=Chem.MolToInchi(mol),
         inchikey=Chem.MolToInchiKey(mol),
         electron_count=electron_count(mol),
@@ -174,6 +174,8 @@ def depict_svg(smiles: str, size: int = 260, highlight: tuple[int, ...] = ()) ->
 
     ``highlight``: atom indices of ``smiles`` as parsed (the alerts' ``atoms``) to shade, with the
     bonds between them."""
+    from rdkit.Chem.Draw import rdMolDraw2D  # here: the drawing package takes 0.1 s to import
+
     mol, reason = parse_smiles(smiles)
     if mol is None:
         raise ValueError(reason)

@@ -44,9 +44,9 @@ from pathlib import Path
 from typing import Any
 
 from rdkit import Chem
-from rdkit.Chem import Descriptors
 
 from builder.chem.datafile import load_yaml
+from builder.chem.molar_mass import molar_mass
 
 GROUPS_PATH = Path(__file__).resolve().parent.parent / "data" / "hansen_groups.yaml"
 
@@ -157,5 +157,5 @@ def estimate_liquid_density(mol_or_smiles: Chem.Mol | str) -> VolumeEstimate:
     if volume <= 0:
         return VolumeEstimate(None, None, None, None, (), "non-positive increment sum")
     v_si = volume * 1e-6
-    rho = Descriptors.MolWt(mol) / volume * 1000.0
+    rho = molar_mass(mol) / volume * 1000.0
     return VolumeEstimate(v_si, rho, DENSITY_ERROR * v_si, DENSITY_ERROR * rho, (), "OK")

@@ -21,18 +21,17 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 
 from rdkit import Chem
-from rdkit.Chem import Descriptors
 
 from builder.chem import state as chem_state
 from builder.chem.boiling import check_structure
 from builder.chem.boiling_small import SMALL_ELEMENTS
 from builder.chem.joback import joback_groups, joback_tc
 from builder.chem.melting import estimate_melting_point
+from builder.chem.molar_mass import molar_mass
 from builder.core.diagnostics import Diagnostic
 from builder.core.model import Entry
 from builder.core.units import celsius_text
 from builder.core.values import Label, Provenance, Value, estimated
-
 
 #: why no boiling point can be estimated, in words, by the estimator's status (prefix)
 NO_TB_REASONS = {
@@ -118,7 +117,7 @@ def _boiling_reason(entry: Entry, mol: Chem.Mol | None) -> str:
     for prefix, words in NO_TB_REASONS.items():
         if status.startswith(prefix):
             return words
-    if mol.GetNumHeavyAtoms() > 60 or Descriptors.MolWt(mol) > 1500:
+    if mol.GetNumHeavyAtoms() > 60 or molar_mass(mol) > 1500:
         return "a very large molecule (polymer-like): it decomposes before it boils"
     return f"no estimator applies ({status})"
 

@@ -56,6 +56,11 @@ def _uses(catalog: Catalog, derived) -> tuple[dict, dict]:
             {k: [(index[i], n) for i, n in sorted(v)] for k, v in by_method.items()})
 
 
+def _shown_uses(uses: dict) -> str:
+    """What a page of ``_uses`` lists shows of them: per key, each material's id and name and the value name."""
+    return repr([(k, [(d.entry.id, d.entry.name, name) for d, name in v]) for k, v in uses.items()])
+
+
 def _groups(catalog: Catalog, derived) -> dict:
     """Entries grouped for the index pages: by dominant force, by store, by possible category."""
     forces: dict[str, list] = {k: [] for k in FORCE_WORDS}
@@ -174,8 +179,11 @@ def render_site(catalog: Catalog, derived: tuple[Derived, ...], out: Path, diagn
         """Which values cite each source and use each method, worked out once by the worker that
         writes both pages."""
         by_source, by_method = _uses(catalog, derived)
-        listing(w, "sources.html", "sources.html", whole, sources_used=by_source)
-        listing(w, "methods.html", "methods.html", whole, methods_used=by_method)
+        # each page shows the sources or methods and, per item, which values of which materials use it
+        sources_key = key_of(base, "sources", repr(catalog.sources), _shown_uses(by_source))
+        listing(w, "sources.html", "sources.html", sources_key, sources_used=by_source)
+        listing(w, "methods.html", "methods.html", key_of(base, "methods", _shown_uses(by_method)),
+                methods_used=by_method)
 
     wide.append(sources_and_methods)
     wide.append(lambda w: w.page("build.html", "build.html", key=key_of(whole, repr(revision)),

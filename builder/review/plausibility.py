@@ -81,14 +81,15 @@ def density_range(dominant_force: str | None, heavy_mass_fraction: float) -> tup
 def heavy_mass_fraction(smiles: str) -> float:
     """Mass fraction of halogens and of atoms heavier than argon (Se, As, Sn, Pb, ...) in the structure."""
     from rdkit import Chem
-    from rdkit.Chem import Descriptors
+
+    from builder.chem.molar_mass import molar_mass
 
     mol = Chem.MolFromSmiles(smiles)
     if mol is None:
         return 0.0
     heavy = sum(atom.GetMass() for atom in mol.GetAtoms()
                 if atom.GetSymbol() in HALOGENS or atom.GetAtomicNum() > 18)
-    return heavy / Descriptors.MolWt(mol)
+    return heavy / molar_mass(mol)
 
 
 def _diag(entry: Entry, dotted: str, severity: str, message: str, hint: str | None = None) -> Diagnostic:
