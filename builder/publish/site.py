@@ -147,10 +147,26 @@ def render_site(catalog: Catalog, derived: tuple[Derived, ...], out: Path, diagn
     # each entry's JSON text is made from its entry and its links; catalog.json keeps them as pieces
     parts = {d.entry.id: key_of(base, "json", entry_keys[d.entry.id], repr(links.get(d.entry.id, ())))
              for d in derived}
-    wide.append(lambda w: w.made("catalog.json", whole, lambda: _with_pieces(
-        cache, base, "catalog.json", lambda pieces: exports.catalog_json_from_parts(
-            [pieces.get((parts[d.entry.id],), lambda d=d: exports.entry_part(d, links.get(d.entry.id, ())))
-             for d in derived]))))
+
+    def json_files(w):
+        """Each entry's ``data/<id>.json`` and ``catalog.json``, one task: both hold the entry's JSON
+        text, made at most once per build."""
+        made: dict[str, str] = {}
+
+        def part(d: Derived) -> str:
+            eid = d.entry.id
+            if eid not in made:
+                made[eid] = exports.entry_part(d, links.get(eid, ()))
+            return made[eid]
+
+        for d in derived:
+            w.made(f"data/{d.entry.id}.json", parts[d.entry.id],
+                   lambda d=d: exports.entry_file_json_from_part(part(d)))
+        w.made("catalog.json", whole, lambda: _with_pieces(
+            cache, base, "catalog.json", lambda pieces: exports.catalog_json_from_parts(
+                [pieces.get((parts[d.entry.id],), lambda d=d: part(d)) for d in derived])))
+
+    wide.append(json_files)
     wide.append(lambda w: w.made("catalog.csv", whole, lambda: _with_pieces(
         cache, base, "catalog.csv", lambda pieces: exports.catalog_csv(derived, pieces, entry_keys))))
     common = dict(catalog=catalog, derived=derived, by_id=by_id, groups=_groups(catalog, derived))
@@ -203,7 +219,7 @@ def render_site(catalog: Catalog, derived: tuple[Derived, ...], out: Path, diagn
                 w.page(f"stores/{key}.html", "store_sheet.html", stamp=stamp,
                        **store_sheet(catalog, derived, key, compat.full(key)), **common)
         wide.append(store_files)
-    job = _EntryFiles(catalog, by_id, links, parts, entry_keys, base, revision, common, relations, wide)
+    job = _EntryFiles(catalog, by_id, links, entry_keys, base, revision, common, relations, wide)
     chunks = [list(range(i, min(i + _CHUNK, len(derived)))) for i in range(0, len(derived), _CHUNK)]
     # the catalog-wide tasks first (the big pages take longest), then the datasheets in chunks
     tasks = [("wide", i) for i in range(len(wide))] + [("entries", c) for c in chunks]
@@ -271,11 +287,11 @@ _FORKED: tuple | None = None
 
 
 class _EntryFiles:
-    """Everything needed to write one entry's files (drawing, vapor chart, JSON, datasheet), and
+    """Everything needed to write one entry's files (drawing, vapor chart, datasheet), and
     the catalog-wide files as functions of a writer (``wide``), for the tasks of ``_run_tasks``."""
 
-    def __init__(self, catalog, by_id, links, parts, entry_keys, base, revision, common, relations, wide=()):
-        self.catalog, self.by_id, self.links, self.parts = catalog, by_id, links, parts
+    def __init__(self, catalog, by_id, links, entry_keys, base, revision, common, relations, wide=()):
+        self.catalog, self.by_id, self.links = catalog, by_id, links
         self.wide = list(wide)  # the catalog-wide files, each a function of a writer
         self.relations = relations
         self.entry_keys, self.base, self.revision, self.common = entry_keys, base, revision, common
@@ -294,8 +310,6 @@ class _EntryFiles:
         if d.mixture is not None and d.mixture.txy is not None:
             writer.made(txy_path(eid), key_of(base, "txy", own), lambda: _txy_chart(d))
         mine = self.links.get(eid, ())
-        writer.made(f"data/{eid}.json", self.parts[eid],
-                    lambda: exports.entry_file_json_from_part(exports.entry_part(d, mine)))
         used = sorted({v.provenance.source for v in d.values.values() if v.provenance.source}
                       | ({d.entry.antoine.source} if d.entry.antoine else set()))
         sources = [catalog.sources[k] for k in used if k in catalog.sources]
