@@ -86,6 +86,7 @@ from __future__ import annotations
 import json
 from dataclasses import dataclass
 from functools import lru_cache
+from itertools import chain
 from pathlib import Path
 from typing import Any
 
@@ -398,29 +399,44 @@ class _FlatTrees:
     """
 
     def __init__(self, trees: list[tuple]) -> None:
-        feature, threshold, step, value, start = [], [], [], [], []
-        depth = 0
-        for splits, cuts, left, right, leaf in trees:
-            base, first_leaf = len(feature), len(feature) + len(splits)
-            start.append(base if splits else first_leaf)  # a tree without splits is its leaf 0
-            for i in range(len(splits)):
-                feature.append(splits[i])
-                threshold.append(cuts[i])
-                for child in (right[i], left[i]):
-                    step.append(base + child if child >= 0 else first_leaf + ~child)
-                value.append(0.0)
-            for k, v in enumerate(leaf):
-                feature.append(0)
-                threshold.append(0.0)
-                step += [first_leaf + k, first_leaf + k]
-                value.append(v)
-            depth = max(depth, _depth(left, right))
-        self.feature = np.array(feature, dtype=np.intp)
-        self.threshold = np.array(threshold, dtype=float)
-        self.step = np.array(step, dtype=np.intp)
-        self.value = np.array(value, dtype=float)
-        self.start = np.array(start, dtype=np.intp)
-        self.depth = depth
+        def joined(column: int, dtype) -> np.ndarray:
+            return np.fromiter(chain.from_iterable(t[column] for t in trees), dtype=dtype)
+
+        splits = np.array([len(t[0]) for t in trees], dtype=np.intp)
+        leaves = np.array([len(t[4]) for t in trees], dtype=np.intp)
+        base = np.cumsum(splits + leaves) - (splits + leaves)  # each tree's first node
+        first_leaf = base + splits
+
+        def places(counts: np.ndarray, offsets: np.ndarray) -> np.ndarray:
+            """Global node numbers of each tree's ``counts`` nodes, numbered from its ``offsets``."""
+            local = np.arange(counts.sum(), dtype=np.intp) - np.repeat(np.cumsum(counts) - counts, counts)
+            return np.repeat(offsets, counts) + local
+
+        at_split, at_leaf = places(splits, base), places(leaves, first_leaf)
+        owner = np.repeat(np.arange(len(trees), dtype=np.intp), splits)
+
+        def node(child: np.ndarray) -> np.ndarray:  # a tree's child index (a split, or ~leaf) as a node number
+            return np.where(child >= 0, base[owner] + child, first_leaf[owner] + ~child)
+
+        n = int((splits + leaves).sum())
+        self.feature = np.zeros(n, dtype=np.intp)
+        self.threshold = np.zeros(n)
+        self.value = np.zeros(n)
+        self.step = np.empty(2 * n, dtype=np.intp)
+        self.feature[at_split] = joined(0, np.intp)
+        self.threshold[at_split] = joined(1, float)
+        self.value[at_leaf] = joined(4, float)
+        self.step[2 * at_split + 1] = node(joined(2, np.intp))
+        self.step[2 * at_split] = node(joined(3, np.intp))
+        self.step[2 * at_leaf] = self.step[2 * at_leaf + 1] = at_leaf
+        self.start = np.where(splits > 0, base, first_leaf)  # a tree without splits is its leaf 0
+        is_split = np.zeros(n, dtype=bool)
+        is_split[at_split] = True
+        self.depth, level = 0, self.start[splits > 0]
+        while len(level):  # splits on the longest path from a root to a leaf
+            self.depth += 1
+            below = np.concatenate((self.step[2 * level], self.step[2 * level + 1]))
+            level = below[is_split[below]]
 
     def total(self, x: list[float]) -> float:
         if not len(self.start):
@@ -430,18 +446,6 @@ class _FlatTrees:
         for _ in range(self.depth):
             node = self.step[2 * node + goes_left[node]]
         return float(np.cumsum(self.value[node])[-1])
-
-
-def _depth(left: list[int], right: list[int]) -> int:
-    """Splits on the longest path from the root to a leaf (0 for a tree that is one leaf)."""
-    if not left:
-        return 0
-    deepest, todo = 0, [(0, 1)]
-    while todo:
-        node, level = todo.pop()
-        deepest = max(deepest, level)
-        todo += [(child, level + 1) for child in (left[node], right[node]) if child >= 0]
-    return deepest
 
 
 class TreeModel:
