@@ -65,7 +65,7 @@ def test_an_unchanged_catalog_is_not_rebuilt(make_entries, tmp_path, cached, cap
     assert {p: p.stat().st_mtime_ns for p in out.rglob("*") if p.is_file()} == before
 
 
-@pytest.mark.parametrize("edit", ["entry", "store", "source", "model"])
+@pytest.mark.parametrize("edit", ["entry", "name", "citation", "store", "source", "model"])
 def test_each_kind_of_edit_gives_what_a_cold_build_gives(make_entries, tmp_path, cached, monkeypatch, edit):
     folder = make_entries({"ethanol.yaml": ETHANOL, "toluene.yaml": TOLUENE})
     out = tmp_path / "site"
@@ -73,6 +73,10 @@ def test_each_kind_of_edit_gives_what_a_cold_build_gives(make_entries, tmp_path,
     first = _digest(out)
     if edit == "entry":
         (folder / "toluene.yaml").write_text(TOLUENE.replace("110.6 °C", "111.0 °C"), encoding="utf-8")
+    elif edit == "name":  # shown in every list of uses on the sources and methods pages
+        (folder / "toluene.yaml").write_text(TOLUENE.replace("name: Toluene", "name: Methylbenzene"), encoding="utf-8")
+    elif edit == "citation":  # the boiling point cites another source: it moves to that source's list
+        (folder / "toluene.yaml").write_text(TOLUENE.replace("source: crc-95", "source: lab"), encoding="utf-8")
     elif edit == "store":
         text = (folder / "locations.yaml").read_text(encoding="utf-8")
         (folder / "locations.yaml").write_text(text.replace("30 °C", "45 °C"), encoding="utf-8")
@@ -93,6 +97,11 @@ def test_each_kind_of_edit_gives_what_a_cold_build_gives(make_entries, tmp_path,
     changed = {k for k in cold if first.get(k) != cold[k]}
     if edit == "entry":
         assert "materials/toluene.html" in changed and "materials/ethanol.html" not in changed
+        assert "sources.html" not in changed and "methods.html" not in changed
+    elif edit == "name":
+        assert {"sources.html", "methods.html"} <= changed
+    elif edit == "citation":
+        assert "sources.html" in changed
     elif edit == "store":
         assert {"materials/ethanol.html", "stores/store-a.html"} <= changed
     elif edit == "source":

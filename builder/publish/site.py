@@ -33,6 +33,23 @@ from builder.publish.templating import (
 from builder.publish.textsafe import short_path
 
 
+def _entry_uses(d: Derived) -> tuple[list, list]:
+    """The (source key, value name) and (method id, value name) pairs of one entry's values."""
+    sources, methods = [], []
+    items = list(d.values.items()) + list(d.labels.items())
+    if d.forces is not None:
+        items += list(d.forces.numbers.items())
+    for name, value in items:
+        prov = value.provenance
+        if prov.source:
+            sources.append((prov.source, name))
+        if prov.method:
+            methods.append((prov.method, name))
+    if d.entry.antoine:
+        sources.append((d.entry.antoine.source, "antoine"))
+    return sources, methods
+
+
 def _uses(catalog: Catalog, derived) -> tuple[dict, dict]:
     """Back-links: source key → [(derived, value name)], method id → [(derived, value name)], each
     list in order of entry id, then value name, without repeats."""
@@ -40,25 +57,15 @@ def _uses(catalog: Catalog, derived) -> tuple[dict, dict]:
     by_method: dict[str, set] = {}
     for d in derived:
         eid = d.entry.id
-        items = list(d.values.items()) + list(d.labels.items())
-        if d.forces is not None:
-            items += list(d.forces.numbers.items())
-        for name, value in items:
-            prov = value.provenance
-            if prov.source and prov.source in by_source:
-                by_source[prov.source].add((eid, name))
-            if prov.method:
-                by_method.setdefault(prov.method, set()).add((eid, name))
-        if d.entry.antoine:
-            by_source[d.entry.antoine.source].add((eid, "antoine"))
+        sources, methods = _entry_uses(d)
+        for source, name in sources:
+            if source in by_source:
+                by_source[source].add((eid, name))
+        for method, name in methods:
+            by_method.setdefault(method, set()).add((eid, name))
     index = {d.entry.id: d for d in derived}
     return ({k: [(index[i], n) for i, n in sorted(v)] for k, v in by_source.items()},
             {k: [(index[i], n) for i, n in sorted(v)] for k, v in by_method.items()})
-
-
-def _shown_uses(uses: dict) -> str:
-    """What a page of ``_uses`` lists shows of them: per key, each material's id and name and the value name."""
-    return repr([(k, [(d.entry.id, d.entry.name, name) for d, name in v]) for k, v in uses.items()])
 
 
 def _groups(catalog: Catalog, derived) -> dict:
@@ -194,12 +201,22 @@ def render_site(catalog: Catalog, derived: tuple[Derived, ...], out: Path, diagn
     def sources_and_methods(w):
         """Which values cite each source and use each method, worked out once by the worker that
         writes both pages."""
+        # each page shows the sources or methods and, per item, which values of which materials use
+        # it: the pages' keys are made of each material's id, name and uses, kept under its derive key
+        marks = Pieces(cache, base, "uses")
+        shown = [marks.get((entry_keys[d.entry.id], "uses"), lambda d=d: repr((d.entry.id, d.entry.name, _entry_uses(d))))
+                 for d in derived]
+        marks.save()
+        sources_key = key_of(base, "sources", repr(catalog.sources), *shown)
+        methods_key = key_of(base, "methods", *shown)
+        kept = {path: w.reuse(path, key) for path, key in (("sources.html", sources_key), ("methods.html", methods_key))}
+        if all(kept.values()):
+            return
         by_source, by_method = _uses(catalog, derived)
-        # each page shows the sources or methods and, per item, which values of which materials use it
-        sources_key = key_of(base, "sources", repr(catalog.sources), _shown_uses(by_source))
-        listing(w, "sources.html", "sources.html", sources_key, sources_used=by_source)
-        listing(w, "methods.html", "methods.html", key_of(base, "methods", _shown_uses(by_method)),
-                methods_used=by_method)
+        if not kept["sources.html"]:
+            listing(w, "sources.html", "sources.html", sources_key, sources_used=by_source)
+        if not kept["methods.html"]:
+            listing(w, "methods.html", "methods.html", methods_key, methods_used=by_method)
 
     wide.append(sources_and_methods)
     wide.append(lambda w: w.page("build.html", "build.html", key=key_of(whole, repr(revision)),
