@@ -120,15 +120,19 @@ MAX_EXTRA_HEAVY_ATOMS = 30
 
 def size_quotas(taken: list[dict], needed: int) -> dict[int, int]:
     """How many of ``needed`` extra compounds to take of each heavy-atom count: the shares of ``taken``
-    (largest remainders), so that a larger catalog holds molecules of the same sizes and its time per
+    among the sizes that can be taken (at most ``MAX_EXTRA_HEAVY_ATOMS``; largest remainders), so that a larger catalog holds molecules of the same sizes and its time per
     entry measures the build, not a change of molecules (3D work grows with the square of the size)."""
     from rdkit import Chem
 
     sizes: dict[int, int] = {}
     for r in taken:
         h = Chem.MolFromSmiles(r["smiles"]).GetNumHeavyAtoms()
-        sizes[h] = sizes.get(h, 0) + 1
-    exact = {h: needed * c / len(taken) for h, c in sizes.items()}
+        if h <= MAX_EXTRA_HEAVY_ATOMS:  # larger ones are never taken, so they ask for nothing
+            sizes[h] = sizes.get(h, 0) + 1
+    if not sizes:
+        return {}
+    counted = sum(sizes.values())
+    exact = {h: needed * c / counted for h, c in sizes.items()}
     quota = {h: int(v) for h, v in exact.items()}
     for h in sorted(exact, key=lambda h: (-(exact[h] - quota[h]), h))[:needed - sum(quota.values())]:
         quota[h] += 1

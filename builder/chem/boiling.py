@@ -61,8 +61,8 @@ rows, 4 of 4 held-out pairs).
 The trees, the correction, the environment vocabulary and the uncertainty
 table live in ``builder/data/boiling_model.json``, written by ``python -m
 builder.fitting.boiling`` from CRC Handbook boiling points (training 80 %);
-the trees are evaluated here in plain Python, so the runtime needs only
-RDKit.  Accuracy on the held-out 20 % is in ``builder/data/
+the trees are walked here all at once over flat numpy arrays (``_FlatTrees``),
+so the runtime needs no machine-learning library.  Accuracy on the held-out 20 % is in ``builder/data/
 boiling_validation.json``.
 
 References
@@ -441,11 +441,14 @@ class _FlatTrees:
     def total(self, x: list[float]) -> float:
         if not len(self.start):
             return 0.0
-        goes_left = (np.asarray(x, dtype=float)[self.feature] <= self.threshold).astype(np.intp)
+        if None in x:  # a missing feature is a bug upstream, not a value to compare
+            raise TypeError("tree features must all be numbers")
         node = self.start
-        for _ in range(self.depth):
-            node = self.step[2 * node + goes_left[node]]
-        return float(np.cumsum(self.value[node])[-1])
+        if self.depth:  # (trees that are only a leaf compare nothing: ``x`` may then be empty)
+            goes_left = (np.asarray(x, dtype=float)[self.feature] <= self.threshold).astype(np.intp)
+            for _ in range(self.depth):
+                node = self.step[2 * node + goes_left[node]]
+        return float(np.cumsum(self.value[node])[-1]) + 0.0  # as 0.0 + leaf + ...: never -0.0
 
 
 class TreeModel:

@@ -89,3 +89,12 @@ def test_random_trees():
         for _x in range(20):
             x = [rng.uniform(-1.2, 1.2) for _ in range(4)]
             assert model.residual(x) == one_tree_at_a_time(trees, x)
+
+
+def test_edge_cases_no_trees_negative_zero_and_missing_features():
+    assert model_of([]).residual([1.0, 2.0]) == 0.0                 # an empty sum
+    leaves_only = [([], [], [], [], [-0.0]), ([], [], [], [], [-0.0])]
+    got, want = model_of(leaves_only).residual([]), one_tree_at_a_time(leaves_only, [])
+    assert math.copysign(1.0, got) == math.copysign(1.0, want) == 1.0  # 0.0 + -0.0 + -0.0 is +0.0
+    with pytest.raises(TypeError):                                  # a missing feature is not compared
+        model_of([([0], [1.0], [~0], [~1], [1.0, 2.0])]).residual([None])
