@@ -108,6 +108,8 @@ def test_every_demo_entry_has_forces_boiling_point_and_fire_sections(demo):
         assert d.label("volatility_band") is not None, d.entry.id
         # no vapor-pressure curve for a gas: the store temperatures lie above its boiling point
         assert d.curve or d.label("physical_state").code == "gas", d.entry.id
+        # plain floats (a numpy scalar pickles with its dtype: slow to cache and to send between processes)
+        assert all(type(x) is float for s in d.curve for x in s.temperatures + s.pressures), d.entry.id
 
 
 def test_in_house_intermediate_is_estimated_and_says_so(demo):

@@ -36,7 +36,10 @@ NOTE_FORMATS = {"degC": lambda kelvin_value: celsius_text(kelvin_value, 0, unit=
 
 @dataclass(frozen=True)
 class Segment:
-    """A stretch of the vapor-pressure curve: kind is antoine, antoine-outside or estimated."""
+    """A stretch of the vapor-pressure curve: kind is antoine, antoine-outside or estimated.
+
+    The points are Python floats, not numpy scalars: a numpy scalar pickles as a call with its
+    dtype, which made the curve most of the time spent storing and reading a derived entry."""
 
     kind: str
     temperatures: tuple[float, ...]
@@ -98,12 +101,14 @@ def _curve(antoine: vapor.Antoine | None, tb: Value | None, vs: VaporStructure |
             idx = np.flatnonzero(mask)
             for run in np.split(idx, np.flatnonzero(np.diff(idx) > 1) + 1):
                 if len(run) > 1:
-                    segments.append(Segment(kind, tuple(np.round(grid[run], 3)), tuple(pressures[run])))
+                    segments.append(Segment(kind, tuple(np.round(grid[run], 3).tolist()),
+                                            tuple(np.asarray(pressures[run], dtype=float).tolist())))
     elif tb is not None and vs is not None:
         below = grid[grid < tb.value]
         if len(below) > 1:
-            segments.append(Segment("estimated", tuple(np.round(below, 3)),
-                                    tuple(vapor.myrdal_yalkowsky_curve(below, tb.value, vs.tau, vs.hbn))))
+            pressures = vapor.myrdal_yalkowsky_curve(below, tb.value, vs.tau, vs.hbn)
+            segments.append(Segment("estimated", tuple(np.round(below, 3).tolist()),
+                                    tuple(np.asarray(pressures, dtype=float).tolist())))
     return segments
 
 

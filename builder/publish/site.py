@@ -145,14 +145,16 @@ def render_site(catalog: Catalog, derived: tuple[Derived, ...], out: Path, diagn
     relations = solvency_relations(derived, cache)
     by_id = {d.entry.id: d for d in derived}
     # what every catalog-wide page is made from: each entry as derived, its links, the stores and sources
-    whole = key_of(base, "whole", *(f"{k}={v}" for k, v in sorted(entry_keys.items())), repr(sorted(links.items())),
+    link_text = {eid: repr(own) for eid, own in links.items()}  # each entry's links as a key, made once
+    whole = key_of(base, "whole", *(f"{k}={v}" for k, v in sorted(entry_keys.items())),
+                   *(f"{k}:{link_text[k]}" for k in sorted(links)),
                    repr(catalog.locations), repr(catalog.sources), repr(tuple(diagnostics)))
     # every catalog-wide file is a task of its own (a function of a writer), run beside the datasheets
     wide: list = []
     series_charts = _catalog_charts(derived, wide, base)
     wide.append(lambda w: w.made("search-index.js", whole, lambda: exports.search_index_js(derived)))
     # each entry's JSON text is made from its entry and its links; catalog.json keeps them as pieces
-    parts = {d.entry.id: key_of(base, "json", entry_keys[d.entry.id], repr(links.get(d.entry.id, ())))
+    parts = {d.entry.id: key_of(base, "json", entry_keys[d.entry.id], link_text.get(d.entry.id, "()"))
              for d in derived}
 
     def json_files(w):
@@ -236,7 +238,7 @@ def render_site(catalog: Catalog, derived: tuple[Derived, ...], out: Path, diagn
                 w.page(f"stores/{key}.html", "store_sheet.html", stamp=stamp,
                        **store_sheet(catalog, derived, key, compat.full(key)), **common)
         wide.append(store_files)
-    job = _EntryFiles(catalog, by_id, links, entry_keys, base, revision, common, relations, wide)
+    job = _EntryFiles(catalog, by_id, links, link_text, entry_keys, base, revision, common, relations, wide)
     chunks = [list(range(i, min(i + _CHUNK, len(derived)))) for i in range(0, len(derived), _CHUNK)]
     # the catalog-wide tasks first (the big pages take longest), then the datasheets in chunks
     tasks = [("wide", i) for i in range(len(wide))] + [("entries", c) for c in chunks]
@@ -307,8 +309,8 @@ class _EntryFiles:
     """Everything needed to write one entry's files (drawing, vapor chart, datasheet), and
     the catalog-wide files as functions of a writer (``wide``), for the tasks of ``_run_tasks``."""
 
-    def __init__(self, catalog, by_id, links, entry_keys, base, revision, common, relations, wide=()):
-        self.catalog, self.by_id, self.links = catalog, by_id, links
+    def __init__(self, catalog, by_id, links, link_text, entry_keys, base, revision, common, relations, wide=()):
+        self.catalog, self.by_id, self.links, self.link_text = catalog, by_id, links, link_text
         self.wide = list(wide)  # the catalog-wide files, each a function of a writer
         self.relations = relations
         self.entry_keys, self.base, self.revision, self.common = entry_keys, base, revision, common
@@ -320,8 +322,10 @@ class _EntryFiles:
         own = self.entry_keys[eid]
         if d.identity is not None:
             smiles = d.identity.smiles
-            writer.made(f"materials/{eid}.svg", key_of(base, "drawing", smiles, own),
-                        lambda: depict_svg(smiles, highlight=tuple(sorted({i for a in d.hazard_alerts for i in a.atoms}))))
+            highlight = tuple(sorted({i for a in d.hazard_alerts for i in a.atoms}))
+            # keyed by what it draws alone: an edited value leaves the drawing as it was
+            writer.made(f"materials/{eid}.svg", key_of(base, "drawing", smiles, repr(highlight)),
+                        lambda: depict_svg(smiles, highlight=highlight))
         if d.curve:
             writer.made(f"materials/{eid}-vapor.svg", key_of(base, "vapor", own), lambda: _vapor_chart(d))
         if d.mixture is not None and d.mixture.txy is not None:
@@ -332,7 +336,7 @@ class _EntryFiles:
         sources = [catalog.sources[k] for k in used if k in catalog.sources]
         substitutes = self.relations.substitutes.get(eid, ())
         matches = self.relations.matches.get(eid, ())
-        sheet_key = key_of(base, "datasheet", own, revision_text(self.revision, d.entry), repr(mine),
+        sheet_key = key_of(base, "datasheet", own, revision_text(self.revision, d.entry), self.link_text.get(eid, "()"),
                            repr([(link.target, by_id[link.target].entry.name) for link in mine if link.target in by_id]),
                            repr([catalog.locations.get(k) for k in d.entry.catalog.locations]), repr(sources),
                            repr(substitutes), repr(matches),
