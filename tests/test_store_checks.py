@@ -153,6 +153,14 @@ def test_demo_has_one_real_conflict_and_a_clean_store():
     bunker = store_compatibility(catalog, derived, "solvent-bunker")
     assert bunker["count"] >= 1
     assert all("potassium-persulfate" in (c.first, c.second) for c in bunker["separate"])
+    # keep-apart is listed kind by kind (fewer lines than pairs); the lines cover exactly the pairs
+    from builder.chem.storage import store_conflicts
+
+    pairs = store_conflicts([(d.entry.id, d.storage) for d in derived
+                             if "solvent-bunker" in d.entry.catalog.locations and d.storage is not None])
+    apart = {(c.first, c.second) for c in pairs if c.outcome == "keep-apart"}
+    listed = {tuple(sorted((a, b))) for k in bunker["apart"] for a in k.first for b in (k.second or k.first) if a != b}
+    assert listed == apart and bunker["apart_pairs"] == len(apart) and len(bunker["apart"]) < len(apart)
     assert store_compatibility(catalog, derived, "acids-cabinet")["count"] == 0
 
 

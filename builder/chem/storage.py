@@ -6,6 +6,8 @@ Contents
 - :func:`assign_group`: declared hazard statements, alert families, GHS flammable-liquid category
   and physical state -> :class:`Assignment` (the group, why, and every class the material carries).
 - :func:`compatibility`: two assignments -> (outcome, reason).
+- :func:`store_conflicts` (pair by pair), :func:`kind_conflicts` (kind by kind: a kind is a group
+  and a class set) and :func:`grouped_conflicts` / :func:`hubs` (pairs gathered per material).
 - :data:`OUTCOMES`, mildest first.
 
 File format
@@ -23,6 +25,7 @@ second condition under an earlier group (a later place in the order).
 """
 from __future__ import annotations
 
+import heapq
 import re
 from dataclasses import dataclass
 from functools import lru_cache
@@ -248,6 +251,132 @@ def store_conflicts(members: Iterable[tuple[str, Assignment]], table: StorageTab
     return tuple(out)
 
 
+@dataclass(frozen=True)
+class KindConflict:
+    """The materials of two storage kinds (a group and a class set) of one store that the table says
+    not to keep together: each material of ``first`` with each of ``second``, or, when ``second`` is
+    empty, the materials of ``first`` with one another.  ``reason`` is worded ``first`` to ``second``."""
+
+    first: tuple[str, ...]  # material ids, sorted
+    second: tuple[str, ...]
+    outcome: str
+    reason: str
+
+    @property
+    def pairs(self) -> int:
+        n = len(self.first)
+        return n * len(self.second) if self.second else n * (n - 1) // 2
+
+    @property
+    def outcome_text(self) -> str:
+        return OUTCOME_TEXT[self.outcome]
+
+
+def kind_conflicts(members: Iterable[tuple[str, Assignment]], table: StorageTable | None = None,
+                   worst_only: bool = False) -> tuple[KindConflict, ...]:
+    """The conflicts of ``members`` (id, assignment) of one store kind by kind: one
+    :class:`KindConflict` per pair of kinds that is not compatible (those with the same outcome and
+    reason towards the same materials joined), so a large store is reported in
+    as many lines as it has conflicting kinds, not pairs (a store of 3,000 materials has about 350,000
+    pairs to keep apart and two dozen kinds).  Sorted: keep-separate first, then by ids.
+
+    The outcome depends only on the two kinds, as in :func:`store_conflicts`; the reason is the one
+    worded from the kind that sorts first (group id, then classes).
+    """
+    table = table or default_table()
+    kinds: dict[tuple[str, tuple[str, ...]], list[str]] = {}
+    assignment: dict[tuple[str, tuple[str, ...]], Assignment] = {}
+    for mid, a in sorted(members, key=lambda m: m[0]):
+        kinds.setdefault((a.group, a.classes), []).append(mid)
+        assignment.setdefault((a.group, a.classes), a)
+    keys = sorted(kinds)
+    out = []
+    for i, ka in enumerate(keys):
+        for kb in keys[i:]:
+            if ka == kb and len(kinds[ka]) < 2:
+                continue
+            outcome, reason = compatibility(assignment[ka], assignment[kb], table)
+            if outcome == "compatible" or (worst_only and outcome != "keep-separate"):
+                continue
+            out.append(KindConflict(tuple(kinds[ka]), () if ka == kb else tuple(kinds[kb]), outcome, reason))
+    for side in ("first", "second"):  # kinds met with the same outcome and reason by the same others: one line
+        out = _merged(out, side)
+    out.sort(key=lambda c: (-OUTCOMES.index(c.outcome), c.first, c.second))
+    return tuple(out)
+
+
+def _merged(conflicts: list[KindConflict], side: str) -> list[KindConflict]:
+    """Join the kind conflicts that differ only in ``side`` (its materials united): ``a × c`` and
+    ``b × c`` are ``(a ∪ b) × c``.  Conflicts within one kind stay as they are."""
+    other = "second" if side == "first" else "first"
+    joined: dict[tuple, list[str]] = {}
+    alone = []
+    for c in conflicts:
+        if not c.second:
+            alone.append(c)
+            continue
+        joined.setdefault((c.outcome, c.reason, getattr(c, other)), []).extend(getattr(c, side))
+    out = list(alone)
+    for (outcome, reason, fixed), ids in joined.items():
+        united = tuple(sorted(ids))
+        first, second = (united, fixed) if side == "first" else (fixed, united)
+        out.append(KindConflict(first, second, outcome, reason))
+    return out
+
+
+def hubs(pairs: list[tuple[str, str]], tiebreak=lambda mid: (), preferred: set[str] | None = None
+         ) -> list[tuple[str, list[int]]]:
+    """Gather ``pairs`` (two material ids each) per material, greedily: the material in most of the
+    pairs not yet taken takes them all, then the next (ties: the smaller ``tiebreak(id)``, then the
+    smaller id; materials of ``preferred``, while any of them is left in a pair, before the others).
+    Returns ``(material, indices of its pairs in pairs' order)`` in the order taken.
+
+    A heap of counts, updated as pairs are taken, so the cost grows with the number of pairs (times
+    a logarithm), not with pairs times materials.
+
+    >>> hubs([("a", "b"), ("a", "c"), ("b", "c"), ("c", "d")])
+    [('c', [1, 2, 3]), ('a', [0])]
+    """
+    incident: dict[str, list[int]] = {}
+    for k, (a, b) in enumerate(pairs):
+        incident.setdefault(a, []).append(k)
+        incident.setdefault(b, []).append(k)
+    count = {mid: len(ks) for mid, ks in incident.items()}
+    heaps: tuple[list, list] = ([], [])  # the preferred materials, everyone
+    for mid, n in count.items():
+        item = (-n, tiebreak(mid), mid)
+        heaps[1].append(item)
+        if preferred is not None and mid in preferred:
+            heaps[0].append(item)
+    for heap in heaps:
+        heapq.heapify(heap)
+    taken = [False] * len(pairs)
+    left, out = len(pairs), []
+    while left:
+        at = None
+        for heap in heaps:
+            while heap and (count[heap[0][2]] == 0 or -heap[0][0] != count[heap[0][2]]):
+                heapq.heappop(heap)  # an old count: the material has lost pairs since
+            if heap:
+                at = heap[0][2]
+                break
+        mine = [k for k in incident[at] if not taken[k]]
+        for k in mine:
+            taken[k] = True
+            a, b = pairs[k]
+            other = b if a == at else a
+            count[other] -= 1
+            if count[other]:
+                item = (-count[other], tiebreak(other), other)
+                heapq.heappush(heaps[1], item)
+                if preferred is not None and other in preferred:
+                    heapq.heappush(heaps[0], item)
+        count[at] = 0
+        left -= len(mine)
+        out.append((at, mine))
+    return out
+
+
 _VOLUME = {"ml": 1e-3, "l": 1.0, "m3": 1000.0, "m³": 1000.0}
 _CONTAINER = re.compile(r"(?:(\d+)\s*[x×]\s*)?(\d+(?:[.,]\d+)?)\s*(mL|ml|L|l|m3|m³)(?![A-Za-z])")
 
@@ -291,19 +420,13 @@ def flammable_volume(members: Iterable[tuple[str, Assignment, str | None]]) -> t
 
 def grouped_conflicts(conflicts: Iterable[Conflict]) -> tuple[tuple[str, tuple[str, ...], str, str], ...]:
     """The pairs gathered for reporting: ``(material, partners, outcome, reason)``, each material in
-    turn taking every remaining pair it is in, the one with most pairs first (ties: by id)."""
+    turn taking every remaining pair it is in, the one with most pairs first (ties: by id; see
+    :func:`hubs`)."""
     pending = list(conflicts)
     out = []
-    while pending:
-        count: dict[str, int] = {}
-        for c in pending:
-            for x in (c.first, c.second):
-                count[x] = count.get(x, 0) + 1
-        at = max(sorted(count), key=lambda i: count[i])
-        mine = [c for c in pending if at in (c.first, c.second)]
-        pending = [c for c in pending if at not in (c.first, c.second)]
+    for at, mine in hubs([(c.first, c.second) for c in pending]):
         by_reason: dict[tuple[str, str], list[str]] = {}
-        for c in mine:
+        for c in (pending[k] for k in mine):
             by_reason.setdefault((c.outcome, c.reason), []).append(c.second if c.first == at else c.first)
         for (outcome, reason), partners in sorted(by_reason.items(), key=lambda kv: (-OUTCOMES.index(kv[0][0]), kv[0][1])):
             out.append((at, tuple(sorted(partners)), outcome, reason))

@@ -14,6 +14,7 @@ from builder.chem.storage import (
     default_table,
     flammable_volume,
     grouped_conflicts,
+    kind_conflicts,
     store_conflicts,
 )
 from builder.core.cache import Cache, code_version, key_of
@@ -69,12 +70,13 @@ def store_sheet(catalog: Catalog, derived: tuple[Derived, ...], key: str, compat
 
 def store_compatibility(catalog: Catalog, derived, key: str) -> dict:
     """Which of a store's materials should not share it (builder/data/storage_compatibility.yaml) and
-    the store's own limits (locations.yaml): ``separate`` and ``apart`` (lists of
-    ``builder.chem.storage.Conflict``), ``limits`` (sentences), ``count`` (keep-separate pairs plus
+    the store's own limits (locations.yaml): ``separate`` (a list of ``builder.chem.storage.Conflict``,
+    pair by pair), ``apart`` (a list of ``builder.chem.storage.KindConflict``, kind by kind) and
+    ``apart_pairs`` (how many pairs those are), ``limits`` (sentences), ``count`` (keep-separate pairs plus
     limits exceeded: what the by-store page shows), ``names`` (id -> name), ``source``."""
     loc = catalog.locations[key]
     members = [d for d in derived if key in d.entry.catalog.locations and getattr(d, "storage", None) is not None]
-    pairs = store_conflicts([(d.entry.id, d.storage) for d in members])
+    assigned = [(d.entry.id, d.storage) for d in members]
     table = default_table()
     limits = []
     if loc.allowed_groups:
@@ -90,8 +92,10 @@ def store_compatibility(catalog: Catalog, derived, key: str) -> dict:
         if total > limit_l:
             limits.append(f"At least {total:g} L of flammable liquid is kept here, more than the store's limit of "
                           f"{limit_l:g} L.")
-    separate = [c for c in pairs if c.outcome == "keep-separate"]
-    return {"separate": separate, "apart": [c for c in pairs if c.outcome == "keep-apart"], "limits": limits,
+    separate = list(store_conflicts(assigned, worst_only=True))
+    # keep-apart pairs are the many (most pairs of a large store): listed kind by kind, not pair by pair
+    apart = [k for k in kind_conflicts(assigned) if k.outcome == "keep-apart"]
+    return {"separate": separate, "apart": apart, "apart_pairs": sum(k.pairs for k in apart), "limits": limits,
             "separate_grouped": grouped_conflicts(separate),
             "count": len(separate) + len(limits), "names": {d.entry.id: d.entry.name for d in members},
             "source": table.source}
@@ -137,5 +141,5 @@ class KeptCompatibility:
 
 def compat_counts(compat: dict) -> dict:
     """How many pairs to keep separate and apart, store limits exceeded, and their total (``count``)."""
-    return {"count": compat["count"], "separate": len(compat["separate"]), "apart": len(compat["apart"]),
+    return {"count": compat["count"], "separate": len(compat["separate"]), "apart": compat["apart_pairs"],
             "limits": len(compat["limits"])}

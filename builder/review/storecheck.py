@@ -27,9 +27,7 @@ material names, the conservative reading; a material with no stated volume is li
 """
 from __future__ import annotations
 
-from collections import Counter
-
-from builder.chem.storage import OUTCOME_TEXT, default_table, flammable_volume, store_conflicts
+from builder.chem.storage import OUTCOME_TEXT, default_table, flammable_volume, hubs, store_conflicts
 from builder.core.diagnostics import Diagnostic
 from builder.core.model import Catalog
 from builder.derive.entry import Derived
@@ -52,17 +50,15 @@ def _conflict_warnings(key: str, members: list[Derived], named: set[str] | None)
     by_id = {d.entry.id: d for d in members}
     rank = {g: i for i, g in enumerate(default_table().group_ids)}
     pending = list(store_conflicts([(d.entry.id, d.storage) for d in members], worst_only=True))
+    preferred = None if named is None else {i for i, d in by_id.items() if d.entry.path in named}
     out = []
-    while pending:  # as builder.chem.storage.grouped_conflicts, but only checked files get warnings
-        count = Counter(x for c in pending for x in (c.first, c.second))
-        candidates = [i for i in count if named is None or by_id[i].entry.path in named] or list(count)
-        # most partners; ties: the group earlier in the table's order (the oxidiser, not the solvent), then id
-        at = max(sorted(candidates), key=lambda i: (count[i], -rank[by_id[i].storage.group]))
-        mine = [c for c in pending if at in (c.first, c.second)]
-        pending = [c for c in pending if at not in (c.first, c.second)]
+    # as builder.chem.storage.grouped_conflicts, but only checked files get warnings while any of them
+    # is left in a pair; most partners first, ties: the group earlier in the table's order (the
+    # oxidiser, not the solvent), then the id
+    for at, mine in hubs([(c.first, c.second) for c in pending], lambda i: rank[by_id[i].storage.group], preferred):
         d = by_id[at]
         by_reason: dict[tuple[str, str], list[str]] = {}
-        for c in mine:
+        for c in (pending[k] for k in mine):
             other = by_id[c.second if c.first == at else c.first]
             by_reason.setdefault((c.reason, other.storage.name.lower()), []).append(f"'{other.entry.id}'")
         reasons = "; ".join(f"{', '.join(ids)} ({group}): {reason}"

@@ -23,6 +23,8 @@ from builder.chem.storage import (
     flammable_volume,
     group_outcome,
     grouped_conflicts,
+    hubs,
+    kind_conflicts,
     store_conflicts,
     validate_table,
 )
@@ -166,6 +168,41 @@ def test_store_conflicts_match_every_pair_compared_one_by_one():
         expected.sort(key=lambda c: (-OUTCOMES.index(c[2]), c[0], c[1]))
         got = [(c.first, c.second, c.outcome, c.reason) for c in store_conflicts(members, worst_only=worst_only)]
         assert got == expected and expected
+        # kind by kind: the same pairs with the same outcomes, each pair once
+        kinds = kind_conflicts(members, worst_only=worst_only)
+        expanded = sorted(tuple(sorted((a, b))) + (k.outcome,) for k in kinds
+                          for a, b in (itertools.combinations(k.first, 2) if not k.second
+                                       else itertools.product(k.first, k.second)))
+        assert expanded == sorted((a, b, o) for a, b, o, _ in expected)
+        assert sum(k.pairs for k in kinds) == len(expected) and len(kinds) < len(expected)
+
+
+def _plain_greedy(pairs, tiebreak, preferred):
+    """The material in most remaining pairs takes them, counted afresh each time (the definition)."""
+    pending, out = list(enumerate(pairs)), []
+    while pending:
+        count = {}
+        for _, (a, b) in pending:
+            for x in (a, b):
+                count[x] = count.get(x, 0) + 1
+        candidates = [i for i in count if preferred is None or i in preferred] or list(count)
+        at = max(sorted(candidates), key=lambda i: (count[i], [-t for t in tiebreak(i)]))
+        out.append((at, [k for k, p in pending if at in p]))
+        pending = [(k, p) for k, p in pending if at not in p]
+    return out
+
+
+def test_hubs_take_pairs_as_the_plain_greedy_does():
+    import random
+
+    rng = random.Random(3)
+    for _ in range(300):
+        ids = [f"m{i:02d}" for i in range(rng.randint(2, 25))]
+        pairs = sorted({tuple(sorted(rng.sample(ids, 2))) for _ in range(rng.randint(1, 80))})
+        rank = {i: (rng.randint(0, 3),) for i in ids}
+        preferred = set(rng.sample(ids, rng.randint(0, min(4, len(ids))))) if rng.random() < 0.5 else None
+        assert hubs(pairs, rank.__getitem__, preferred) == _plain_greedy(pairs, rank.__getitem__, preferred)
+        assert hubs(pairs) == _plain_greedy(pairs, lambda i: (), None)
 
 
 def test_container_volumes():
