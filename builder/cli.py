@@ -120,8 +120,7 @@ def _count(n: int, noun: str, plural: str | None = None) -> str:
 
 
 def cmd_check(args) -> int:
-    from builder.derive.catalog import derive_catalog
-    from builder.load.entries import load_catalog
+    from builder.core.cache import collector_paused
 
     files = [Path(f) for f in args.files] if args.files else None
     if files:
@@ -130,6 +129,23 @@ def cmd_check(args) -> int:
             print(f"cohesion check: no such file: {missing[0]}", file=sys.stderr)
             return EXIT_USAGE
     cache = _cache_for(args)
+    with collector_paused():  # as in a build (builder.pipeline): the results read make no cyclic garbage
+        diagnostics, n_entries = _check_diagnostics(args, files, cache)
+    _print_diagnostics(diagnostics)
+    n_err = len(errors(diagnostics))
+    n_warn = len(diagnostics) - n_err
+    checked = _count(n_entries, "entry", "entries") if n_entries is not None else "the entries"
+    print(f"cohesion check: {checked}, {_count(n_err, 'error')}, {_count(n_warn, 'warning')}", file=sys.stderr)
+    if n_err or (args.strict and n_warn):
+        return EXIT_ENTRIES
+    return EXIT_OK
+
+
+def _check_diagnostics(args, files, cache) -> tuple[list[Diagnostic], int | None]:
+    """The diagnostics of ``cohesion check`` and how many entries were read (None: none could be)."""
+    from builder.derive.catalog import derive_catalog
+    from builder.load.entries import load_catalog
+
     catalog, diagnostics = load_catalog(Path(args.entries), only=files, cache=cache)
     if catalog is not None:
         from builder.review.plausibility import check_catalog, check_files
@@ -143,14 +159,7 @@ def cmd_check(args) -> int:
         derived = derive_catalog(catalog, jobs=args.jobs, cache=cache, neighbours=neighbours)
         plausible = check_files(Path(args.entries), catalog, derived, cache) if files else check_catalog(catalog, derived)
         diagnostics = sorted(diagnostics + [f for d in derived for f in d.findings] + plausible)
-    _print_diagnostics(diagnostics)
-    n_err = len(errors(diagnostics))
-    n_warn = len(diagnostics) - n_err
-    checked = _count(len(catalog.entries), "entry", "entries") if catalog else "the entries"
-    print(f"cohesion check: {checked}, {_count(n_err, 'error')}, {_count(n_warn, 'warning')}", file=sys.stderr)
-    if n_err or (args.strict and n_warn):
-        return EXIT_ENTRIES
-    return EXIT_OK
+    return diagnostics, (len(catalog.entries) if catalog else None)
 
 
 def cmd_substitute(args) -> int:
