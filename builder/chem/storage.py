@@ -339,6 +339,8 @@ def hubs(pairs: list[tuple[str, str]], tiebreak=lambda mid: (), preferred: set[s
     """
     incident: dict[str, list[int]] = {}
     for k, (a, b) in enumerate(pairs):
+        if a == b:
+            raise ValueError(f"a pair of one material with itself: {a!r}")
         incident.setdefault(a, []).append(k)
         incident.setdefault(b, []).append(k)
     count = {mid: len(ks) for mid, ks in incident.items()}

@@ -203,6 +203,8 @@ def test_hubs_take_pairs_as_the_plain_greedy_does():
         preferred = set(rng.sample(ids, rng.randint(0, min(4, len(ids))))) if rng.random() < 0.5 else None
         assert hubs(pairs, rank.__getitem__, preferred) == _plain_greedy(pairs, rank.__getitem__, preferred)
         assert hubs(pairs) == _plain_greedy(pairs, lambda i: (), None)
+    with pytest.raises(ValueError):  # ids are unique in a store: a material never pairs with itself
+        hubs([("a", "a"), ("a", "b")])
 
 
 def test_container_volumes():
