@@ -120,8 +120,9 @@ MAX_EXTRA_HEAVY_ATOMS = 30
 
 def size_quotas(taken: list[dict], needed: int) -> dict[int, int]:
     """How many of ``needed`` extra compounds to take of each heavy-atom count: the shares of ``taken``
-    among the sizes that can be taken (at most ``MAX_EXTRA_HEAVY_ATOMS``; largest remainders), so that a larger catalog holds molecules of the same sizes and its time per
-    entry measures the build, not a change of molecules (3D work grows with the square of the size)."""
+    among the sizes that can be taken (at most ``MAX_EXTRA_HEAVY_ATOMS``; largest remainders), so that
+    a larger catalog holds molecules of the same sizes and its time per entry measures the build, not
+    a change of molecules (3D work grows with the square of the size)."""
     from rdkit import Chem
 
     sizes: dict[int, int] = {}

@@ -62,8 +62,8 @@ The trees, the correction, the environment vocabulary and the uncertainty
 table live in ``builder/data/boiling_model.json``, written by ``python -m
 builder.fitting.boiling`` from CRC Handbook boiling points (training 80 %);
 the trees are walked here all at once over flat numpy arrays (``_FlatTrees``),
-so the runtime needs no machine-learning library.  Accuracy on the held-out 20 % is in ``builder/data/
-boiling_validation.json``.
+so the runtime needs no machine-learning library.  Accuracy on the held-out
+20 % is in ``builder/data/boiling_validation.json``.
 
 References
 ----------

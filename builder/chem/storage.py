@@ -267,18 +267,14 @@ class KindConflict:
         n = len(self.first)
         return n * len(self.second) if self.second else n * (n - 1) // 2
 
-    @property
-    def outcome_text(self) -> str:
-        return OUTCOME_TEXT[self.outcome]
-
 
 def kind_conflicts(members: Iterable[tuple[str, Assignment]], table: StorageTable | None = None,
                    worst_only: bool = False) -> tuple[KindConflict, ...]:
     """The conflicts of ``members`` (id, assignment) of one store kind by kind: one
     :class:`KindConflict` per pair of kinds that is not compatible (those with the same outcome and
-    reason towards the same materials joined), so a large store is reported in
-    as many lines as it has conflicting kinds, not pairs (a store of 3,000 materials has about 350,000
-    pairs to keep apart and two dozen kinds).  Sorted: keep-separate first, then by ids.
+    reason towards the same materials joined), so a large store is reported in as many lines as it
+    has conflicting kinds, not pairs (a store of 3,333 materials had about 320,000 pairs to keep apart
+    and two dozen kinds).  Sorted: keep-separate first, then by ids.
 
     The outcome depends only on the two kinds, as in :func:`store_conflicts`; the reason is the one
     worded from the kind that sorts first (group id, then classes).

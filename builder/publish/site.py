@@ -336,7 +336,8 @@ class _EntryFiles:
         sources = [catalog.sources[k] for k in used if k in catalog.sources]
         substitutes = self.relations.substitutes.get(eid, ())
         matches = self.relations.matches.get(eid, ())
-        sheet_key = key_of(base, "datasheet", own, revision_text(self.revision, d.entry), self.link_text.get(eid, "()"),
+        sheet_key = key_of(base, "datasheet", own, revision_text(self.revision, d.entry),
+                           self.link_text.get(eid, "()"),
                            repr([(link.target, by_id[link.target].entry.name) for link in mine if link.target in by_id]),
                            repr([catalog.locations.get(k) for k in d.entry.catalog.locations]), repr(sources),
                            repr(substitutes), repr(matches),
