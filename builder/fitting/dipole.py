@@ -17,7 +17,9 @@ Contents
   geometries the runtime uses), base charges (MMFF94, else Gasteiger-Marsili) and the
   bond-increment design of ``builder.chem.dipole.bond_increment_keys``. The 3D work is
   cached in ``CACHE_PATH`` (``/tmp/cohesion-dipole-features.pkl``, or
-  ``$COHESION_DIPOLE_CACHE``), keyed by the RDKit version: about 30 s the first time.
+  ``$COHESION_DIPOLE_CACHE``), keyed by the RDKit version and the text of
+  ``builder/chem/structure3d.py`` (a changed ensemble rule is a new cache): about 30 s the
+  first time.
 - ``fit(records)``: the two charge scales and the increments by robust penalised
   least squares (scipy, fitting only), penalty by 5-fold cross-validation; the
   uncertainty table by molecule family from out-of-sample residuals
@@ -124,16 +126,27 @@ class Prepared:
     torsions: int
 
 
-def load_features(records: list[Record]) -> dict[str, dict[str, Any]]:
-    """Return :func:`ensemble_data` of every record, read from (and added to) ``CACHE_PATH``."""
+def features_version() -> str:
+    """What the cached 3D work depends on: the RDKit version and the ensemble code's text."""
+    import hashlib
+
     import rdkit
 
+    from builder.chem import structure3d
+
+    code = Path(structure3d.__file__).read_bytes()
+    return f"{rdkit.__version__} {hashlib.sha256(code).hexdigest()[:16]}"
+
+
+def load_features(records: list[Record]) -> dict[str, dict[str, Any]]:
+    """Return :func:`ensemble_data` of every record, read from (and added to) ``CACHE_PATH``."""
+    version = features_version()
     cache: dict[str, Any] = {}
     if CACHE_PATH.exists():
         try:
             with CACHE_PATH.open("rb") as handle:
                 stored = pickle.load(handle)  # our own file under /tmp, written below
-            if stored.get("rdkit") == rdkit.__version__:
+            if stored.get("version") == version:
                 cache = stored["data"]
         except (OSError, pickle.UnpicklingError, EOFError, KeyError, AttributeError):
             cache = {}
@@ -145,7 +158,7 @@ def load_features(records: list[Record]) -> dict[str, dict[str, Any]]:
         del blocker
         tmp = CACHE_PATH.with_suffix(".tmp")
         with tmp.open("wb") as handle:
-            pickle.dump({"rdkit": rdkit.__version__, "data": cache}, handle)
+            pickle.dump({"version": version, "data": cache}, handle)
         os.replace(tmp, CACHE_PATH)
     return cache
 
