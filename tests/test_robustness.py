@@ -24,6 +24,7 @@ from builder.chem.structure3d import (
     FULL_ENSEMBLE_ATOMS,
     MAX_3D_ATOMS,
     MAX_3D_ATOMS_VARIABLE,
+    MAX_CONFORMERS,
     TOO_LARGE,
     _budget,
     conformer_ensemble,
@@ -149,7 +150,8 @@ def test_every_demo_entry_is_under_the_default_3d_limit():
 
 
 def test_large_ensembles_shrink_with_size():
-    assert _budget(FULL_ENSEMBLE_ATOMS) == (8, 500)
+    assert _budget(FULL_ENSEMBLE_ATOMS) == (MAX_CONFORMERS, 500)
+    assert _budget(FULL_ENSEMBLE_ATOMS + 10)[0] < MAX_CONFORMERS
     most, iters = _budget(MAX_3D_ATOMS)
     assert most == 1 and iters == 200
 

@@ -49,15 +49,15 @@ radicals (open-shell; outside both charge models).
 
 Accuracy on the held-out 20 % (``builder/data/dipole_validation.json``; n = 125, of which
 105 have a clear reference below 0.2 D or above 0.8 D): mean absolute error 0.30 D (0.32 D
-on the clear ones; uncorrected MMFF94 0.59 and 0.63 D), root-mean-square error 0.55 D,
+on the clear ones; uncorrected MMFF94 0.59 and 0.64 D), root-mean-square error 0.54 D,
 polar/non-polar agreement 97.1 % at 0.5 D. ``python tools/bench_profile.py`` gives the
 figures over the whole reference set. The standard uncertainty given with a value is
 that of the molecule's family (:func:`molecule_family`), the root-mean-square of
 out-of-sample residuals (5-fold out-of-fold on the training part plus the held-out
-part; ``uncertainty`` in the model file): hydrocarbons 0.20 D, other N/O compounds 0.46
-D, halocarbons 0.54 D, inorganic 0.61 D, O-H/N-H compounds 0.66 D, compounds of S, P,
-Si and other elements 0.95 D. Flexible molecules (3 or more torsions) are worse than
-rigid ones (held-out MAE 0.51 against 0.24 D). Typical misses: conformer-sensitive
+part; ``uncertainty`` in the model file): hydrocarbons 0.20 D, other N/O compounds 0.47
+D, halocarbons 0.54 D, inorganic 0.60 D, O-H/N-H compounds 0.63 D, compounds of S, P,
+Si and other elements 0.96 D. Flexible molecules (3 or more torsions) are worse than
+rigid ones (held-out MAE 0.53 against 0.24 D). Typical misses: conformer-sensitive
 moments (1,2-dimethoxyethane, 1,1,2,2-tetrafluoroethane), bonds too rare to be fitted
 (C-I, interhalogens), hypervalent and charge-separated inorganics (SO3, SF6, N2O).
 Valid range: neutral closed-shell molecules of H, C, N, O, F, Si, P, S, Cl, Br, I.

@@ -387,8 +387,8 @@ def estimate_hansen(mol_or_smiles: Chem.Mol | str, model: HansenModel | None = N
     of the boiling-point model).  The standard uncertainty is the RMS and the 90 % half-width
     the 90th percentile of out-of-fold training residuals, separately for molecules the group
     tables cover and those they do not.  Held-out MAE (fifth of the ``chemicals`` Hansen sets by
-    InChIKey hash, 259 compounds): MAE δD 0.44, δP 1.52, δH 1.09 MPa^½ (group method alone on
-    the 216 it covers: 0.72, 2.14, 1.54); 90 % interval coverage 0.91-0.93
+    InChIKey hash, 259 compounds): MAE δD 0.46, δP 1.53, δH 1.07 MPa^½ (group method alone on
+    the 216 it covers: 0.72, 2.14, 1.54); 90 % interval coverage 0.91-0.94
     (``builder/data/hansen_validation.json``).  Each call also estimates Tb and the dipole
     moment (features; about 50 ms).  References: module docstring.
 
