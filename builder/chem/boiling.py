@@ -104,6 +104,7 @@ from builder.chem.joback import (
     joback_sum,
     to_mol,
 )
+from builder.chem.memo import for_last
 from builder.chem.stein_brown import joback_stein_brown, stein_brown_correction
 
 MODEL_PATH = Path(__file__).resolve().parent.parent / "data" / "boiling_model.json"
@@ -344,13 +345,22 @@ def descriptor_row(mol: Chem.Mol, environments: dict[str, int]) -> list[float]:
     ``environments`` maps each vocabulary key to its column offset; keys not
     in the vocabulary are counted together in the last column.
     """
+    row, keys = _common_features(mol)
+    env = [0.0] * (len(environments) + 1)
+    for key in keys:
+        env[environments.get(key, len(environments))] += 1.0
+    return [*row, *env]
+
+
+@for_last
+def _common_features(mol: Chem.Mol) -> tuple[tuple[float, ...], tuple[str, ...]]:
+    """What ``descriptor_row`` reads whatever the vocabulary: the group counts and descriptors, and
+    the atom environment keys. Kept for the last molecule (``memo.for_last``): the boiling-point,
+    melting-point and Hansen trees of one entry all read them."""
     counts, unassigned = joback_groups(mol)
     row = [float(counts.get(name, 0)) for name, _, _ in JOBACK_TB]
     row += scalar_descriptors(mol, counts, len(unassigned))
-    env = [0.0] * (len(environments) + 1)
-    for key in atom_environments(mol):
-        env[environments.get(key, len(environments))] += 1.0
-    return row + env
+    return tuple(row), tuple(atom_environments(mol))
 
 
 def check_structure(mol: Chem.Mol | None) -> str:
@@ -549,7 +559,21 @@ def tree_estimate(mol_or_smiles: Chem.Mol | str, model: TreeModel | None = None)
     with fluorine: ``TAIL_UNCERTAINTY_K``).
     References: Joback & Reid (1987), Stein & Brown (1994), Friedman (2001);
     see the module docstring.
+
+    With the shipped model, the estimate of the last Mol object is kept
+    (``memo.for_last``): an entry's boiling point and its Hansen features ask for it.
     """
+    if model is None and isinstance(mol_or_smiles, Chem.Mol):
+        return _shipped_tree_estimate(mol_or_smiles)
+    return _tree_estimate(mol_or_smiles, model)
+
+
+@for_last
+def _shipped_tree_estimate(mol: Chem.Mol) -> TbEstimate:
+    return _tree_estimate(mol, None)
+
+
+def _tree_estimate(mol_or_smiles: Chem.Mol | str, model: TreeModel | None) -> TbEstimate:
     method = "joback_sb_trees"
     mol = to_mol(mol_or_smiles)
     status = check_structure(mol)

@@ -86,6 +86,7 @@ import numpy as np
 from rdkit import Chem, rdBase
 from rdkit.Chem import AllChem, rdForceFieldHelpers
 
+from builder.chem.memo import for_last
 from builder.chem.structure3d import (
     TEMPERATURE_K,
     ConformerEnsemble,
@@ -347,9 +348,24 @@ def dipole_moment(mol_or_smiles: str | Chem.Mol, *, charges: str = "auto") -> Di
 
 
 def ensemble_dipole(ensemble: ConformerEnsemble, *, charges: str = "auto") -> DipoleEstimate:
-    """Estimate the dipole moment from a conformer ensemble (see :func:`dipole_moment`)."""
+    """Estimate the dipole moment from a conformer ensemble (see :func:`dipole_moment`).
+
+    The default route's estimate of the last ensemble object is kept (``memo.for_last``): the
+    force profile and the Hansen features of one entry both ask for it.
+    """
     if charges not in ("auto", "mmff", "gasteiger"):
         raise ValueError(f"charges must be 'auto', 'mmff' or 'gasteiger', got {charges!r}")
+    if charges == "auto":
+        return _default_route(ensemble)
+    return _ensemble_dipole(ensemble, charges)
+
+
+@for_last
+def _default_route(ensemble: ConformerEnsemble) -> DipoleEstimate:
+    return _ensemble_dipole(ensemble, "auto")
+
+
+def _ensemble_dipole(ensemble: ConformerEnsemble, charges: str) -> DipoleEstimate:
     mol = ensemble.mol
     net_charge = Chem.GetFormalCharge(mol)
     if net_charge != 0:
