@@ -123,11 +123,11 @@ def test_held_out_accuracy_beats_the_group_method():
     assert table["delta_h"]["model_all"]["mae"] <= TARGETS["delta_h"]
     # regression guards at the accuracy reached (targets for δD and δP are not yet met)
     assert table["delta_d"]["model_all"]["mae"] <= 0.50
-    assert table["delta_p"]["model_all"]["mae"] <= 1.60
+    assert table["delta_p"]["model_all"]["mae"] <= 1.55
 
 
 @pytest.mark.slow
-@pytest.mark.xfail(strict=True, reason="issue targets δP ≤ 1.3 and δD ≤ 0.45 not reached; δH ≤ 1.2 is (held-out 0.46, 1.53, 1.07: python -m builder.fitting.hansen --report)")
+@pytest.mark.xfail(strict=True, reason="issue targets δP ≤ 1.3 and δD ≤ 0.45 not reached; δH ≤ 1.2 is (held-out 0.46, 1.49, 1.09: python -m builder.fitting.hansen --report)")
 def test_held_out_targets_of_the_issue():
     table = validation()["components"]
     assert all(table[c]["model_all"]["mae"] <= t for c, t in TARGETS.items())
