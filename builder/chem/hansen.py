@@ -252,10 +252,10 @@ BASE_FEATURES = ("dD_group", "dP_group", "dH_group", "V_group", "R_group", "EP_g
                  "EH_group", "n_unknown", "EP_per_V", "EH_per_V", "tb_K", "delta_total_from_tb",
                  "dipole_D", "beerbower_dP")
 """Names of the leading features; the group counts (``GROUP_KEYS``), the boiling-point model's
-features and the ``CLOSURE_FEATURES`` follow.  ``delta_total_from_tb`` is √((ΔHvap − RT)/V) with ΔHvap at 298 K from the
-estimated Tb (Kistiakowsky's entropy at Tb, Watson's scaling with Tc ≈ 1.5 Tb); ``beerbower_dP``
-is Beerbower's δP ≈ 37.4 μ/√V (μ in D, V in cm³/mol, Hansen 2007, from memory): both only
-features, their constants need not be exact."""
+features and the ``CLOSURE_FEATURES`` follow.  ``delta_total_from_tb`` is √((ΔHvap − RT)/V) with
+ΔHvap at 298 K from the estimated Tb (Kistiakowsky's entropy at Tb, Watson's scaling with
+Tc ≈ 1.5 Tb); ``beerbower_dP`` is Beerbower's δP ≈ 37.4 μ/√V (μ in D, V in cm³/mol, Hansen 2007,
+from memory): both only features, their constants need not be exact."""
 
 MISSING = -1.0
 """Value of a feature that could not be computed (the exported trees have no missing-value branch)."""
@@ -306,13 +306,17 @@ def hansen_row(mol: Chem.Mol, environments: dict[str, int]) -> tuple[list[float]
         37.4 * mu / math.sqrt(v) if mu is not None and v == v else MISSING,
     ]
     row += [float(counts.get(k, 0)) for k in GROUP_KEYS]
-    return row + descriptor_row(mol, environments) + closure_features(row[0], row[1], row[2], row[11]), g
+    closures = closure_features(*(row[BASE_FEATURES.index(name)] for name in
+                                  ("dD_group", "dP_group", "dH_group", "delta_total_from_tb")))
+    return row + descriptor_row(mol, environments) + closures, g
 
 
 def closure_features(d_d: float, d_p: float, d_h: float, d_total: float) -> list[float]:
     """``CLOSURE_FEATURES`` from the group values (NaN: none, counted as 0) and ``delta_total_from_tb``.
 
-    >>> [round(x, 2) for x in closure_features(15.0, 4.0, 6.0, 18.0)]   # √(324 − 225 − 36), √(324 − 225 − 16), √(324 − 16 − 36), 324 − 277
+    By hand: √(324 − 225 − 36), √(324 − 225 − 16), √(324 − 16 − 36) and 324 − 225 − 16 − 36.
+
+    >>> [round(x, 2) for x in closure_features(15.0, 4.0, 6.0, 18.0)]
     [7.94, 9.11, 16.49, 47.0]
     >>> closure_features(15.0, 4.0, 6.0, MISSING)
     [-1.0, -1.0, -1.0, -1.0]
@@ -413,7 +417,8 @@ def estimate_hansen(mol_or_smiles: Chem.Mol | str, model: HansenModel | None = N
     InChIKey hash, 259 compounds): MAE δD 0.46, δP 1.49, δH 1.09 MPa^½ (group method alone on
     the 216 it covers: 0.72, 2.14, 1.54); 90 % interval coverage 0.91-0.92
     (``builder/data/hansen_validation.json``).  Each call also estimates Tb and the dipole
-    moment (features; about 50 ms).  References: module docstring.
+    moment (features; about 50 ms), unless they were just made for the same Mol object (an entry's
+    own boiling point and force profile; ``memo.for_last``).  References: module docstring.
 
     Examples
     --------

@@ -90,8 +90,8 @@ MAX_CONFORMERS = 6
 Six rather than eight: on the 1,000-entry benchmark catalog the 3D work took 54 instead of 75 s
 of CPU (a cold build is mostly 3D work), while the refitted dipole correction kept its held-out
 accuracy (``python -m builder.fitting.dipole``: MAE 0.302 D against 0.300 D with eight; 0.526
-against 0.514 D on the 20 molecules with three or more torsions; four conformers gave 0.317 and
-0.600 D)."""
+against 0.514 D on the 20 molecules with three or more torsions; five conformers gave 0.306 and
+0.546 D, four 0.317 and 0.600 D)."""
 
 TEMPERATURE_K = 298.15
 """Temperature for Boltzmann weights [K]."""
