@@ -124,6 +124,14 @@ def derive_catalog(catalog: Catalog, jobs: int | None = 1, cache: Cache | None =
     return tuple(results[e.id] for e in catalog.entries)
 
 
+def expected_cost(task) -> int:
+    """A rough, cheap measure of how long deriving a task's entry takes: the square of its SMILES's
+    length (the conformer ensembles dominate, and their cost grows about with the square of the
+    molecule's size); 0 without a SMILES (a mixture is derived from its components' results)."""
+    smiles = task[0].smiles
+    return len(smiles) ** 2 if smiles else 0
+
+
 def _run_stage(tasks, results, jobs, cache, state, total, progress) -> None:
     """Derive ``tasks`` (entry, stores, components, key) into ``results``: each from the cache where it
     is kept, else computed. With worker processes, the computing starts first, and the kept results
@@ -157,6 +165,9 @@ def _run_stage(tasks, results, jobs, cache, state, total, progress) -> None:
     todo = [t for t, here in zip(tasks, present) if not here]
     worth_it = len(todo) >= MIN_PARALLEL or (todo and len(kept) >= MIN_OVERLAP)
     if jobs > 1 and worth_it and "fork" in multiprocessing.get_all_start_methods():
+        # the costliest first, so that no large molecule is left to one worker at the end while the
+        # others wait; where each result goes does not depend on the order (``finished``)
+        todo = sorted(todo, key=expected_cost, reverse=True)
         with fork_pool(min(jobs, len(todo))) as pool:
             chunk = max(1, min(8, len(todo) // (jobs * 8)))
             computed = pool.map(_derive_pair, [t[:3] for t in todo], chunksize=chunk)  # submitted at once
