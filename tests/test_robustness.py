@@ -342,3 +342,13 @@ def test_csv_text_cell_rule():
         assert csv_text_cell(start + "x") == "'" + start + "x"
     assert csv_text_cell("Toluene") == "Toluene"
     assert csv_text_cell("\u202e=x") == "[U+202E]=x"
+
+
+def test_the_3d_limit_applies_to_a_molecule_already_asked_about(monkeypatch):
+    # the ensembles and canonical SMILES are kept per process: the limit in force still decides
+    monkeypatch.delenv(MAX_3D_ATOMS_VARIABLE, raising=False)
+    assert conformer_ensemble("CCCCCCCCCO").ok
+    monkeypatch.setenv(MAX_3D_ATOMS_VARIABLE, "5")
+    assert conformer_ensemble("CCCCCCCCCO").status.startswith(TOO_LARGE)
+    monkeypatch.delenv(MAX_3D_ATOMS_VARIABLE)
+    assert conformer_ensemble("OCCCCCCCCC").ok

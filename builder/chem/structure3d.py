@@ -222,11 +222,17 @@ def canonical_smiles(mol_or_smiles: str | Chem.Mol) -> str:
         If the SMILES does not parse.
     """
     if isinstance(mol_or_smiles, Chem.Mol):
-        mol = mol_or_smiles
-    else:
-        mol = Chem.MolFromSmiles(mol_or_smiles)
-        if mol is None:
-            raise ValueError(f"SMILES did not parse: {mol_or_smiles!r}")
+        return Chem.MolToSmiles(Chem.RemoveHs(mol_or_smiles), isomericSmiles=True)
+    return _canonical_text(mol_or_smiles)
+
+
+@functools.lru_cache(maxsize=4096)
+def _canonical_text(smiles: str) -> str:
+    """:func:`canonical_smiles` of a SMILES string, kept: an entry's force profile, dipole and
+    Hansen estimate each ask for the ensemble of the same canonical SMILES."""
+    mol = Chem.MolFromSmiles(smiles)
+    if mol is None:
+        raise ValueError(f"SMILES did not parse: {smiles!r}")
     return Chem.MolToSmiles(Chem.RemoveHs(mol), isomericSmiles=True)
 
 
@@ -333,15 +339,23 @@ def conformer_ensemble(smiles: str) -> ConformerEnsemble:
         several stereoisomers are sampled); ``status`` explains any shortfall.
     """
     key = canonical_smiles(smiles)
-    reason = too_large_for_3d(Chem.MolFromSmiles(key))
+    reason = _too_large(key, max_3d_atoms())
     if reason is not None:
         return ConformerEnsemble(key, Chem.AddHs(Chem.MolFromSmiles(key)), (), (), "none", reason)
     return _ensemble(key)
 
 
+@functools.lru_cache(maxsize=4096)
+def _too_large(key: str, limit: int) -> str | None:
+    """:func:`too_large_for_3d` of a canonical SMILES under the heavy-atom ``limit`` in force, kept."""
+    return too_large_for_3d(Chem.MolFromSmiles(key))
+
+
 def clear_cache() -> None:
     """Forget every cached ensemble (for timing and determinism checks)."""
     _ensemble.cache_clear()
+    _canonical_text.cache_clear()
+    _too_large.cache_clear()
 
 
 @functools.lru_cache(maxsize=2048)
