@@ -183,3 +183,11 @@ def test_contrasts_are_the_nearest_in_molar_mass_with_another_force(count, monke
         assert _targets(links[a.entry.id], "contrast") == {oid for _, oid in by_hand[:count]}, a.entry.id
         cut += len(by_hand) > count
     assert cut >= 1  # the cut-off was exercised
+
+
+@pytest.mark.parametrize("a, b, n", [("C2H6O", "C3H8S", None), ("C2H6", "C3H8O", None), ("C3H8O", "C2H6", None),
+                                     ("CH4", "C2H6", 1), ("C2H4Cl2", "C4H8Cl2", 2), ("C2H4Cl2", "C3H6Cl", None),
+                                     ("C6H6", "C7H8", 1), ("C2H6O", "C3H10O", None)])
+def test_ch2_difference_needs_every_other_element_unchanged(a, b, n):
+    # a homologue differs by whole CH2 units and nothing else (common practice)
+    assert ch2_difference(a, b) == n

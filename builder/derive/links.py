@@ -39,16 +39,18 @@ class Link:
 
 
 @lru_cache(maxsize=16384)
-def _element_counts(formula: str) -> dict:
-    return formula_counts(formula)[0]
+def _ch2_signature(formula: str) -> tuple[int, int, frozenset]:
+    """(carbons, hydrogens, the other elements' counts) of a formula, what a CH2 step leaves alone."""
+    counts = formula_counts(formula)[0]
+    return (counts.get("C", 0), counts.get("H", 0),
+            frozenset((el, n) for el, n in counts.items() if el not in ("C", "H") and n))
 
 
 def ch2_difference(formula_a: str, formula_b: str) -> int | None:
     """n when formula_b = formula_a + n·CH2 (n may be negative), else None."""
-    a, b = _element_counts(formula_a), _element_counts(formula_b)
-    diff = {el: b.get(el, 0) - a.get(el, 0) for el in set(a) | set(b)}
-    n = diff.get("C", 0)
-    if n == 0 or diff.get("H", 0) != 2 * n or any(v for el, v in diff.items() if el not in ("C", "H")):
+    (ca, ha, rest_a), (cb, hb, rest_b) = _ch2_signature(formula_a), _ch2_signature(formula_b)
+    n = cb - ca
+    if n == 0 or hb - ha != 2 * n or rest_a != rest_b:
         return None
     return n
 
@@ -68,6 +70,7 @@ def _force(d: Derived) -> str | None:
     return lab.code if lab is not None else None
 
 
+@lru_cache(maxsize=16384)
 def _celsius(kelvin: float) -> str:
     return celsius_text(kelvin, 0)
 
