@@ -125,6 +125,29 @@ def test_only_the_edited_entry_is_derived_again(make_entries, cached):
     assert (cache.hits, cache.misses) == (1, 3)
 
 
+def test_only_regular_files_of_the_last_site_are_linked_into_the_next(make_entries, tmp_path, cached):
+    # an unchanged page is linked from the site it replaces only when it is a plain file there: one
+    # replaced by a symbolic link (to anything) or a folder is written again
+    folder = make_entries({"ethanol.yaml": ETHANOL, "toluene.yaml": TOLUENE})
+    out = tmp_path / "site"
+    assert _build(folder, out) == 0
+    outside = tmp_path / "outside.html"
+    outside.write_text("not a datasheet", encoding="utf-8")
+    sheet, drawing = out / "materials" / "toluene.html", out / "materials" / "toluene.svg"
+    made, kept = sheet.read_bytes(), (out / "materials" / "toluene-vapor.svg").stat().st_ino
+    sheet.unlink()
+    sheet.symlink_to(outside)
+    drawing.unlink()
+    drawing.mkdir()
+    (folder / "ethanol.yaml").write_text(ETHANOL.replace("T-1", "T-9"), encoding="utf-8")  # toluene unchanged
+    assert _build(folder, out) == 0
+    assert not sheet.is_symlink() and sheet.read_bytes() == made
+    assert drawing.is_file() and drawing.read_text(encoding="utf-8").startswith("<?xml")
+    assert (out / "materials" / "toluene-vapor.svg").stat().st_ino == kept  # a plain file: linked, not rewritten
+    assert outside.read_text(encoding="utf-8") == "not a datasheet"
+    assert _digest(out) == _cold(folder, tmp_path / "cold")
+
+
 def test_a_damaged_cache_file_is_recomputed(make_entries, tmp_path, cached, capsys):
     folder = make_entries({"ethanol.yaml": ETHANOL, "toluene.yaml": TOLUENE})
     assert _build(folder, tmp_path / "site") == 0

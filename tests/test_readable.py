@@ -180,3 +180,51 @@ def test_page_relative_links_match_posixpath():
     dirs = ["", "materials", "cards", "a", "a/b", "materials/x", "zzz"]
     for path, start in itertools.product(paths, dirs):
         assert _relpath(path, start) == posixpath.relpath(path, start or "."), (path, start)
+
+
+#: the Jinja macro that wrote the rows of the datasheets' values tables before ``rows_markup``
+#: replaced it (templates/macros.html, until December 2026), kept here as the reference
+_ROWS_MACRO = """{% macro rows(items) -%}
+{% for name, v in items %}
+<tr>
+  <th scope="row">{{ property_label(name) }}</th>
+  {% if is_label(v) %}
+  <td>{{ word(v) }}</td>
+  <td class="note-cell">{{ v.provenance.note or '' }}</td>
+  {% else %}
+  <td>{{ show(v) }}</td>
+  <td class="note-cell">{{ ([] if not v.conditions else [condition_text(*v.conditions[0])]) | join('') }}{% if v.conditions and v.provenance.note %}; {% endif %}{{ v.provenance.note or '' }}</td>
+  {% endif %}
+</tr>
+{% endfor %}
+{%- endmacro %}{{ rows(items) }}"""
+
+
+def test_value_rows_write_what_the_jinja_macro_wrote():
+    # every values table of every demo datasheet (notes, conditions, labels, bidi-free and not),
+    # plus a row whose note holds markup and a bidi control: the Python rows are the macro's bytes
+    from dataclasses import replace
+
+    from builder.core.values import Provenance, Value
+    from builder.derive.catalog import derive_catalog
+    from builder.load.entries import load_catalog
+    from builder.publish.templating import environment, relative, value_link
+    from builder.publish.views import SHEET_TABLES, table_rows
+    from conftest import DEMO
+
+    env = environment()
+    macro = env.from_string(_ROWS_MACRO)
+    python = env.from_string("{{ rows(items) }}")
+    catalog, _ = load_catalog(DEMO)
+    tables = []
+    for d in derive_catalog(catalog):
+        tables += [table_rows(d, t) for t in SHEET_TABLES]
+        if d.forces is not None:
+            tables.append(list(d.forces.numbers.items()))
+    odd = Value(351.4, "K", Provenance("measured", source="crc-95", note="<b>boiled</b> \u202e & 'so'"),
+                conditions=(("pressure", 101325.0),))
+    tables.append([("boiling_point", odd), ("vapor_pressure", replace(odd, unit="Pa", conditions=()))])
+    assert sum(map(len, tables)) > 200
+    for items in tables:
+        context = dict(items=items, url=lambda target: relative("materials/x.html", target), value_link=value_link)
+        assert python.render(**context) == macro.render(**context), items

@@ -11,6 +11,7 @@ import json
 import os
 import posixpath
 import shutil
+import stat
 from pathlib import Path
 
 import jinja2
@@ -125,7 +126,7 @@ def environment(templates: Path = TEMPLATES, compiled: Path | None = None) -> ji
                        card_notes=card_notes, health_codes=health_codes,
                        OUTCOME_TEXT=OUTCOME_TEXT,
                        is_label=lambda v: isinstance(v, Label), boiling_validation=_boiling_validation(),
-                       show=show_markup, word=word_markup, tag=tag_markup, value_or=value_or_markup,
+                       show=show_markup, word=word_markup, rows=rows_markup, tag=tag_markup, value_or=value_or_markup,
                        material_link=material_link_markup, piece=piece_markup, substitute_names=substitute_names,
                        melting_validation=_stored_validation("melting_validation.json"),
                        small_validation=_stored_validation("boiling_small_validation.json"),
@@ -194,8 +195,9 @@ def _out(value) -> str:
             .replace('"', "&#34;"))
 
 
-# The value marks every page shows by the thousand, written in Python rather than as Jinja macros
-# (a macro call costs about ten times as much); each writes exactly what its macro wrote.
+# The value marks and the rows of values tables, which every page shows by the thousand, written in
+# Python rather than as Jinja macros (a macro call costs about ten times as much); each writes exactly
+# what its macro wrote.
 
 @jinja2.pass_context
 def tag_markup(context, v) -> Markup:
@@ -231,6 +233,23 @@ def value_or_markup(context, v, missing="—", marked=False) -> Markup:
     if v is None:
         return Markup(f'<span class="none">{_out(missing)}</span>' if marked else _out(missing))
     return word_markup(context, v) if isinstance(v, Label) else show_markup(context, v)
+
+
+@jinja2.pass_context
+def rows_markup(context, items) -> Markup:
+    """The rows of a values table (label, value with its tag, note) for (name, Value or Label) pairs."""
+    out = []
+    for name, v in items:
+        out.append(f'<tr>\n  <th scope="row">{_out(property_label(name))}</th>\n')
+        note = _out(v.provenance.note or "")
+        if isinstance(v, Label):
+            out.append(f'  <td>{_out(word_markup(context, v))}</td>\n  <td class="note-cell">{note}</td>\n')
+        else:
+            at = _out(condition_text(*v.conditions[0])) if v.conditions else ""
+            between = "; " if v.conditions and v.provenance.note else ""
+            out.append(f'  <td>{_out(show_markup(context, v))}</td>\n  <td class="note-cell">{at}{between}{note}</td>\n')
+        out.append("</tr>\n")
+    return Markup("".join(out))
 
 
 @jinja2.pass_context
@@ -339,6 +358,17 @@ class Writer:
         self.written: list[str] = []
         self.keys: dict[str, str] = {}
         self.reused = 0
+        # plain strings and the folders made so far: a rebuild links thousands of files, and the
+        # path objects and a mkdir per file took longer than the links themselves
+        self._previous = os.fspath(previous) if previous is not None else None
+        self._out = os.fspath(out)
+        self._folders: set[str] = set()
+
+    def _folder_for(self, target: str) -> None:
+        folder = os.path.dirname(target)
+        if folder not in self._folders:
+            os.makedirs(folder, exist_ok=True)
+            self._folders.add(folder)
 
     def reuse(self, path: str, key: str | None) -> bool:
         """Link the last build's file at ``path`` if it was made from ``key``; True when it did."""
@@ -347,11 +377,14 @@ class Writer:
         self.keys[path] = key
         if self.previous is None or self.previous_keys.get(path) != key:
             return False
-        old = self.previous / path
-        if old.is_symlink() or not old.is_file():
+        old = os.path.join(self._previous, path)
+        try:
+            if not stat.S_ISREG(os.lstat(old).st_mode):  # a link, a folder, ...: made again
+                return False
+        except OSError:
             return False
-        target = self.out / path
-        target.parent.mkdir(parents=True, exist_ok=True)
+        target = os.path.join(self._out, path)
+        self._folder_for(target)
         try:
             os.link(old, target)
         except OSError:
@@ -381,8 +414,8 @@ class Writer:
             self._write(path, make())
 
     def _write(self, path: str, text: str) -> None:
-        target = self.out / path
-        target.parent.mkdir(parents=True, exist_ok=True)
+        target = os.path.join(self._out, path)
+        self._folder_for(target)
         with open(target, "w", encoding="utf-8", newline="\n") as fh:
             fh.write(text)
         self.written.append(path)
