@@ -26,7 +26,7 @@ only if the build scales linearly, not more because the molecules got bigger. Py
 first (``compileall``), as a normal installation does on first use (this machine's environment
 sets ``PYTHONDONTWRITEBYTECODE``, which would make every build compile the builder again).
 
-    python tools/bench_build.py --sizes 250,1000,3000 [--jobs N] [--store-size N]
+    python tools/bench_build.py --sizes 250,1000,3000 [--repeat N] [--jobs N] [--store-size N]
 
 Needs the test extra (``pip install -e '.[test]'``) for ``chemicals``.
 """
@@ -36,6 +36,7 @@ import argparse
 import json
 import os
 import re
+import statistics
 import subprocess
 import sys
 import tempfile
@@ -284,6 +285,9 @@ def main(argv=None) -> int:
     p.add_argument("--sizes", default="250,1000", help="comma-separated catalog sizes (default 250,1000)")
     p.add_argument("--jobs", type=int, default=None, help="pass --jobs N to the build")
     p.add_argument("--json", action="store_true", help="print the results as JSON lines too")
+    p.add_argument("--repeat", type=int, default=1,
+                   help="runs per size, each with a catalog folder and cache of its own (default 1); with "
+                        "more than one, a row of the medians follows: a shared machine's speed varies")
     p.add_argument("--store-size", type=int, default=STORE_SIZE,
                    help=f"entries per store (default {STORE_SIZE}; 0: three stores whatever the size)")
     args = p.parse_args(argv)
@@ -294,17 +298,26 @@ def main(argv=None) -> int:
     rows = reference_rows()
     print(f"{len(rows)} reference compounds available (CRC organic table in chemicals); larger catalogs "
           "continue with structures from its PubChem identifier table")
-    header = (f"{'entries':>8} {'stores':>7} {'cold s':>8} {'no-op s':>8} {'1 edit s':>9} {'add 1 s':>8} "
+    header = (f"{'run':>6} {'entries':>8} {'stores':>7} {'cold s':>8} {'no-op s':>8} {'1 edit s':>9} {'add 1 s':>8} "
               f"{'check s':>8} {'peak MB':>8} {'floor s':>8} {'cpu ref s':>9}")
     print(header)
     for n in (int(s) for s in args.sizes.split(",") if s.strip()):
-        r = bench(n, rows, args.jobs)
-        print(f"{r['entries']:>8} {r['stores']:>7} {r['cold_s']:>8.1f} {r['noop_s']:>8.2f} {r['edit_s']:>9.2f} "
-              f"{r['add_s']:>8.2f} {r['check_s']:>8.2f} {r['peak_mb']:>8.0f} {r['floor_s']:>8.2f} "
-              f"{r['cpu_ref_s']:>9.2f}", flush=True)
-        if args.json:
-            print(json.dumps(r))
+        runs = []
+        for k in range(max(1, args.repeat)):
+            r = bench(n, rows, args.jobs)
+            runs.append(r)
+            print(_row(str(k + 1), r), flush=True)
+            if args.json:
+                print(json.dumps(r))
+        if len(runs) > 1:
+            print(_row("median", {key: statistics.median(r[key] for r in runs) for key in runs[0]}), flush=True)
     return 0
+
+
+def _row(run: str, r: dict) -> str:
+    return (f"{run:>6} {r['entries']:>8.0f} {r['stores']:>7.0f} {r['cold_s']:>8.1f} {r['noop_s']:>8.2f} "
+            f"{r['edit_s']:>9.2f} {r['add_s']:>8.2f} {r['check_s']:>8.2f} {r['peak_mb']:>8.0f} {r['floor_s']:>8.2f} "
+            f"{r['cpu_ref_s']:>9.2f}")
 
 
 if __name__ == "__main__":
