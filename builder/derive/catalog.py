@@ -55,12 +55,21 @@ def component_ids(entry: Entry, by_id: dict[str, Entry]) -> list[str]:
     return list(dict.fromkeys(out))
 
 
+#: [catalog, settings, keys] of the last ``entry_keys``: a build asks for them while deriving and again
+#: while writing (the same catalog object), and each key hashes the text of a whole entry
+_LAST_KEYS: list = [None, None, None]
+
+
 def entry_keys(catalog: Catalog) -> dict[str, str]:
     """Each entry's derive key, by id: what its derived record is made from."""
-    by_id = {e.id: e for e in catalog.entries}
     settings = settings_key()
-    return {e.id: derive_key(e, {k: catalog.locations[k] for k in e.catalog.locations},
+    if _LAST_KEYS[0] is catalog and _LAST_KEYS[1] == settings:
+        return dict(_LAST_KEYS[2])
+    by_id = {e.id: e for e in catalog.entries}
+    keys = {e.id: derive_key(e, {k: catalog.locations[k] for k in e.catalog.locations if k in catalog.locations},
                              tuple(by_id[i] for i in component_ids(e, by_id)), settings) for e in catalog.entries}
+    _LAST_KEYS[:] = [catalog, settings, keys]
+    return dict(keys)
 
 
 def stage_of(entry: Entry, by_id: dict[str, Entry]) -> int:
@@ -110,6 +119,7 @@ def derive_catalog(catalog: Catalog, jobs: int | None = 1, cache: Cache | None =
     state = {"done": 0}
     jobs = available_cpus() if jobs is None else max(1, jobs)
     settings = settings_key()
+    own_keys = entry_keys(catalog) if not neighbours else {}  # with neighbours, their ids can be components
     for stage in (0, 1, 2):
         tasks = []
         for entry in todo_entries:
@@ -118,8 +128,8 @@ def derive_catalog(catalog: Catalog, jobs: int | None = 1, cache: Cache | None =
             stores = {k: catalog.locations[k] for k in entry.catalog.locations if k in catalog.locations}
             ids = component_ids(entry, by_id)
             components = {i: results[i] for i in ids if i in results}
-            tasks.append((entry, stores, components,
-                          derive_key(entry, stores, tuple(by_id[i] for i in ids), settings)))
+            key = own_keys.get(entry.id) or derive_key(entry, stores, tuple(by_id[i] for i in ids), settings)
+            tasks.append((entry, stores, components, key))
         _run_stage(tasks, results, jobs, cache, state, total, progress)
     return tuple(results[e.id] for e in catalog.entries)
 
