@@ -85,6 +85,7 @@ class Cache:
 
     def __init__(self, root: Path | None, notes=None):
         self.root = Path(root) if root is not None else None
+        self._root = os.fspath(self.root) if root is not None else None  # plain strings: thousands of files a build
         self.notes = notes  # called with a message when a cache file is ignored
         self.hits = 0
         self.misses = 0
@@ -102,13 +103,13 @@ class Cache:
             return None
         return self.root / kind
 
-    def _path(self, kind: str, key: str) -> Path:
-        return self.root / kind / key[:2] / f"{key}.pickle"
+    def _path(self, kind: str, key: str) -> str:
+        return os.path.join(self._root, kind, key[:2], key + ".pickle")
 
     def has(self, kind: str, key: str) -> bool:
         """Whether a result is kept under ``key`` (it may still turn out unreadable: ``get`` says);
         one that is not counts as a miss."""
-        found = self.root is not None and self._path(kind, key).is_file()
+        found = self.root is not None and os.path.isfile(self._path(kind, key))
         if not found:
             self.misses += 1
         return found
@@ -139,8 +140,9 @@ class Cache:
         try:
             if not self.root.exists():
                 self.root.mkdir(parents=True, mode=0o700)
-            path.parent.mkdir(parents=True, exist_ok=True)
-            fd, tmp = tempfile.mkstemp(dir=path.parent, prefix=".tmp-")
+            folder = os.path.dirname(path)
+            os.makedirs(folder, exist_ok=True)
+            fd, tmp = tempfile.mkstemp(dir=folder, prefix=".tmp-")
             with os.fdopen(fd, "wb") as fh:
                 pickle.dump(value, fh, protocol=pickle.HIGHEST_PROTOCOL)
             os.replace(tmp, path)
