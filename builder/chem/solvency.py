@@ -229,12 +229,14 @@ def blend_record(a: Solvent, b: Solvent, phi: float) -> Solvent:
     )
 
 
-def _within(pool: Sequence[Solvent], centre: Params, max_ra: float) -> list[Solvent]:
+def _within(pool: Sequence[Solvent], centre: Params, max_ra: float, params: np.ndarray | None = None) -> list[Solvent]:
     """The members of ``pool`` that may lie within ``max_ra`` of ``centre``: a vectorised
-    pre-selection with a margin, so that ``hansen_distance`` alone decides at the border."""
+    pre-selection with a margin, so that ``hansen_distance`` alone decides at the border.
+    ``params``: the members' parameters as an (n, 3) array, when the caller has them."""
     if not pool:
         return []
-    params = np.asarray([s.hansen for s in pool], dtype=float)
+    if params is None:
+        params = np.asarray([s.hansen for s in pool], dtype=float)
     d = (params - np.asarray(centre, dtype=float)) * np.sqrt(np.asarray(WEIGHTS, dtype=float))
     near = np.einsum("ij,ij->i", d, d) <= (max_ra + 1e-6) ** 2
     return [s for s, keep in zip(pool, near.tolist(), strict=True) if keep]
@@ -258,18 +260,28 @@ def rank_substitutes(target: Solvent, candidates: Sequence[Solvent], max_ra: flo
 
 
 def iter_substitutes(target: Solvent, candidates: Sequence[Solvent], max_ra: float,
-                     blends: bool = False, min_fraction: float = 0.05) -> Iterator[Candidate]:
+                     blends: bool = False, min_fraction: float = 0.05, *, params: np.ndarray | None = None,
+                     prefixes: dict | None = None) -> Iterator[Candidate]:
     """``rank_substitutes`` one candidate at a time: each is compared with the target only when
-    it is asked for, so taking the first few of a long list costs little."""
-    pool = [c for c in candidates if c.id != target.id]
+    it is asked for, so taking the first few of a long list costs little.
+
+    For a caller that ranks many targets against one catalog: ``params``, the candidates'
+    parameters as an (n, 3) array in their order, and ``prefixes``, each candidate's
+    ``safety_key(candidate, 0.0)[:-2]`` by id (the part of its key that does not depend on Ra)."""
+    keep = [c.id != target.id for c in candidates]
+    pool = [c for c, k in zip(candidates, keep, strict=True) if k]
+    if params is not None and len(pool) != len(candidates):
+        params = params[np.asarray(keep, dtype=bool)]
     scored: list[tuple[tuple, Solvent, tuple, float]] = []
 
     def add(record: Solvent, blend: tuple[tuple[str, float], ...]) -> None:
         ra = hansen_distance(record.hansen, target.hansen)
         if ra <= max_ra:
-            scored.append((safety_key(record, ra), record, blend, ra))
+            prefix = prefixes.get(record.id) if prefixes is not None and not blend else None
+            key = prefix + (round(ra, 9), record.id) if prefix is not None else safety_key(record, ra)
+            scored.append((key, record, blend, ra))
 
-    for c in _within(pool, target.hansen, max_ra):
+    for c in _within(pool, target.hansen, max_ra, params):
         add(c, ())
     if blends:
         for a, b in combinations(sorted(pool, key=lambda s: s.id), 2):

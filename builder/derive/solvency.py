@@ -13,9 +13,12 @@ relative energy difference RED = Ra/R0.
 """
 from __future__ import annotations
 
+import bisect
 import math
 from dataclasses import dataclass
 from itertools import islice
+
+import numpy as np
 
 from builder.chem import solvency
 from builder.chem.hansen import COMPONENTS, cohesive_energy_split, estimate_hansen
@@ -154,14 +157,18 @@ def substitutes_for(target, derived, max_ra: float = DEFAULT_MAX_RA, blends: boo
     me = solvents.get(target.entry.id)
     if me is None:
         return []
-    others = [s for key, s in solvents.items() if key != me.id]
     safety = safety_prefixes(solvents) if safety is None else safety
     mine = safety[me.id]
     if safer_only:
         # the safety key leaves out Ra, and a blend is never safer than its less safe part
         # (blend_record takes the worse of the two on every criterion): the others can be left out first
-        others = [s for s in others if safety[s.id] < mine]
-    ranked = solvency.iter_substitutes(me, others, max_ra, blends=blends)
+        order = _safety_order(solvents, safety)
+        count = bisect.bisect_left(order.prefixes, mine)  # those before: strictly safer than the target
+        ranked = solvency.iter_substitutes(me, order.records[:count], max_ra, blends=blends,
+                                           params=order.params[:count], prefixes=safety)
+    else:
+        others = [s for key, s in solvents.items() if key != me.id]
+        ranked = solvency.iter_substitutes(me, others, max_ra, blends=blends)
     if safer_only:
         ranked = (c for c in ranked if c.better and solvency.safety_key(_record(c, solvents), c.ra)[:-2] < mine)
     return list(islice(ranked, limit))
@@ -170,6 +177,30 @@ def substitutes_for(target, derived, max_ra: float = DEFAULT_MAX_RA, blends: boo
 def safety_prefixes(solvents: dict) -> dict:
     """Each record's place in the safety ordering, Ra and id left out (``solvency.safety_key``)."""
     return {key: solvency.safety_key(s, 0.0)[:-2] for key, s in solvents.items()}
+
+
+@dataclass(frozen=True)
+class _SafetyOrder:
+    """The ranking records in safety order (``prefixes``: their safety keys without Ra and id, sorted;
+    ``params``: their Hansen parameters as an array): the liquids safer than a given one are a head of it."""
+
+    records: tuple
+    prefixes: tuple
+    params: np.ndarray
+
+
+#: [solvents, safety, order] of the last ``_safety_order``: ranking every liquid asks for it each time
+_LAST_ORDER: list = [None, None, None]
+
+
+def _safety_order(solvents: dict, safety: dict) -> _SafetyOrder:
+    if _LAST_ORDER[0] is solvents and _LAST_ORDER[1] is safety:
+        return _LAST_ORDER[2]
+    records = tuple(sorted(solvents.values(), key=lambda s: (safety[s.id], s.id)))
+    order = _SafetyOrder(records, tuple(safety[s.id] for s in records),
+                         np.asarray([s.hansen for s in records], dtype=float).reshape(-1, 3))
+    _LAST_ORDER[:] = [solvents, safety, order]
+    return order
 
 
 def catalog_solvents(derived) -> dict[str, solvency.Solvent]:
