@@ -191,3 +191,23 @@ def test_gas_kept_below_its_boiling_point_is_refrigerated_liquefied(make_entries
     (cls,) = hazard_classes_json(d)
     assert cls["category"] == "refrigerated liquefied" and cls["h_code"] == "H281"
     assert "refrigerated-liquefied-gas" in {n.id for n in d.notes}
+
+
+def test_entry_keys_follow_the_settings_for_the_same_catalog(monkeypatch):
+    # the keys are kept for the catalog last asked about; a changed COHESION_* setting (here the 3D
+    # limit, which changes results) must still give other keys, and the keys of a cold computation
+    from builder.core.cache import settings_key
+    from builder.derive import catalog as derive_module
+
+    monkeypatch.delenv("COHESION_MAX_3D_ATOMS", raising=False)
+    catalog, _ = load_catalog(DEMO)
+    before = derive_module.entry_keys(catalog)
+    monkeypatch.setenv("COHESION_MAX_3D_ATOMS", "12")
+    limited = derive_module.entry_keys(catalog)
+    by_id = {e.id: e for e in catalog.entries}
+    assert limited == {e.id: derive_module.derive_key(
+        e, {k: catalog.locations[k] for k in e.catalog.locations},
+        tuple(by_id[i] for i in derive_module.component_ids(e, by_id)), settings_key()) for e in catalog.entries}
+    assert all(limited[k] != before[k] for k in before)
+    monkeypatch.delenv("COHESION_MAX_3D_ATOMS")
+    assert derive_module.entry_keys(catalog) == before
