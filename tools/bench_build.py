@@ -4,7 +4,7 @@ Generates N-entry catalogs from the CRC Handbook organic table shipped in the
 ``chemicals`` package (real structures, stated boiling points, IEC 60079-20-1 flash
 points where that table has one) and times ``cohesion build`` as a whole process:
 
-- cold: empty cache, no previous site;
+- cold: empty cache, no previous site (wall time, and the CPU time of the build and its workers);
 - no-op: the same build again;
 - one edit: one entry's boiling point changed;
 - add one: one new entry;
@@ -36,6 +36,7 @@ import argparse
 import json
 import os
 import re
+import resource
 import statistics
 import subprocess
 import sys
@@ -209,21 +210,25 @@ def write_catalog(folder: Path, rows: list[dict], stores: int | None = None) -> 
     return paths
 
 
-def timed_build(entries: Path, out: Path | None, env: dict, jobs: int | None) -> tuple[float, float]:
-    """Wall seconds and peak MB of ``cohesion build`` (or ``cohesion check`` when ``out`` is None)."""
+def timed_build(entries: Path, out: Path | None, env: dict, jobs: int | None) -> tuple[float, float, float]:
+    """Wall seconds, peak MB and CPU seconds (user and system, of the build and every process it
+    started) of ``cohesion build`` (or ``cohesion check`` when ``out`` is None)."""
     cmd = [sys.executable, "-c", _RUNNER, "build", "--entries", str(entries), "--out", str(out)]
     if out is None:
         cmd = [sys.executable, "-c", _RUNNER, "check", "--entries", str(entries)]
     if jobs:
         cmd += ["--jobs", str(jobs)]
+    before = resource.getrusage(resource.RUSAGE_CHILDREN)
     start = time.perf_counter()
     result = subprocess.run(cmd, cwd=entries.parent, env=env, capture_output=True, text=True)
     wall = time.perf_counter() - start
+    after = resource.getrusage(resource.RUSAGE_CHILDREN)
+    cpu = (after.ru_utime + after.ru_stime) - (before.ru_utime + before.ru_stime)
     if result.returncode != 0:
         raise SystemExit(f"build failed ({result.returncode}):\n{result.stderr[-2000:]}")
     peak = max((int(line.split()[1]) for line in result.stderr.splitlines() if line.startswith("PEAK_KIB")),
                default=0)
-    return wall, peak / 1024.0
+    return wall, peak / 1024.0, cpu
 
 
 def floor_seconds(entries: Path, out: Path) -> float:
@@ -264,15 +269,15 @@ def bench(n: int, rows: list[dict], jobs: int | None) -> dict:
         env = dict(os.environ, COHESION_CACHE_DIR=str(work / "cache"))
         out = work / "site"
         result = {"entries": n}
-        result["cold_s"], result["cold_peak_mb"] = timed_build(entries, out, env, jobs)
-        result["noop_s"], result["noop_peak_mb"] = timed_build(entries, out, env, jobs)
-        result["check_s"], result["check_peak_mb"] = timed_build(entries, None, env, jobs)
+        result["cold_s"], result["cold_peak_mb"], result["cold_cpu_s"] = timed_build(entries, out, env, jobs)
+        result["noop_s"], result["noop_peak_mb"], _ = timed_build(entries, out, env, jobs)
+        result["check_s"], result["check_peak_mb"], _ = timed_build(entries, None, env, jobs)
         at = max(i for i in range(n // 2 + 1) if rows[i]["tb"] is not None)  # a CRC compound's boiling point
         paths[at].write_text(entry_text(rows[at], at, store_count(n), tb_shift=1.0), encoding="utf-8")
-        result["edit_s"], result["edit_peak_mb"] = timed_build(entries, out, env, jobs)
+        result["edit_s"], result["edit_peak_mb"], _ = timed_build(entries, out, env, jobs)
         used = {p.stem for p in paths}
         (entries / f"{_slug(rows[n]['name'], used)}.yaml").write_text(entry_text(rows[n], n, store_count(n)), encoding="utf-8")
-        result["add_s"], result["add_peak_mb"] = timed_build(entries, out, env, jobs)
+        result["add_s"], result["add_peak_mb"], _ = timed_build(entries, out, env, jobs)
         result["floor_s"] = floor_seconds(entries, work / "floor")
         result["cpu_ref_s"] = cpu_reference()
         result["stores"] = store_count(n)
@@ -298,8 +303,8 @@ def main(argv=None) -> int:
     rows = reference_rows()
     print(f"{len(rows)} reference compounds available (CRC organic table in chemicals); larger catalogs "
           "continue with structures from its PubChem identifier table")
-    header = (f"{'run':>6} {'entries':>8} {'stores':>7} {'cold s':>8} {'no-op s':>8} {'1 edit s':>9} {'add 1 s':>8} "
-              f"{'check s':>8} {'peak MB':>8} {'floor s':>8} {'cpu ref s':>9}")
+    header = (f"{'run':>6} {'entries':>8} {'stores':>7} {'cold s':>8} {'cold CPU s':>10} {'no-op s':>8} "
+              f"{'1 edit s':>9} {'add 1 s':>8} {'check s':>8} {'peak MB':>8} {'floor s':>8} {'cpu ref s':>9}")
     print(header)
     for n in (int(s) for s in args.sizes.split(",") if s.strip()):
         runs = []
@@ -315,9 +320,9 @@ def main(argv=None) -> int:
 
 
 def _row(run: str, r: dict) -> str:
-    return (f"{run:>6} {r['entries']:>8.0f} {r['stores']:>7.0f} {r['cold_s']:>8.1f} {r['noop_s']:>8.2f} "
-            f"{r['edit_s']:>9.2f} {r['add_s']:>8.2f} {r['check_s']:>8.2f} {r['peak_mb']:>8.0f} {r['floor_s']:>8.2f} "
-            f"{r['cpu_ref_s']:>9.2f}")
+    return (f"{run:>6} {r['entries']:>8.0f} {r['stores']:>7.0f} {r['cold_s']:>8.1f} {r['cold_cpu_s']:>10.1f} "
+            f"{r['noop_s']:>8.2f} {r['edit_s']:>9.2f} {r['add_s']:>8.2f} {r['check_s']:>8.2f} {r['peak_mb']:>8.0f} "
+            f"{r['floor_s']:>8.2f} {r['cpu_ref_s']:>9.2f}")
 
 
 if __name__ == "__main__":

@@ -247,7 +247,8 @@ def rows_markup(context, items) -> Markup:
         else:
             at = _out(condition_text(*v.conditions[0])) if v.conditions else ""
             between = "; " if v.conditions and v.provenance.note else ""
-            out.append(f'  <td>{_out(show_markup(context, v))}</td>\n  <td class="note-cell">{at}{between}{note}</td>\n')
+            out.append(f'  <td>{_out(show_markup(context, v))}</td>\n'
+                       f'  <td class="note-cell">{at}{between}{note}</td>\n')
         out.append("</tr>\n")
     return Markup("".join(out))
 
