@@ -196,9 +196,11 @@ def max_3d_atoms() -> int:
     return limit if limit >= 0 else MAX_3D_ATOMS
 
 
-def too_large_for_3d(mol: Chem.Mol) -> str | None:
-    """Return why ``mol`` gets no 3D structure (a sentence starting :data:`TOO_LARGE`), or None."""
-    heavy, limit = mol.GetNumHeavyAtoms(), max_3d_atoms()
+def too_large_for_3d(mol: Chem.Mol, limit: int | None = None) -> str | None:
+    """Return why ``mol`` gets no 3D structure (a sentence starting :data:`TOO_LARGE`), or None.
+
+    ``limit``: the heavy-atom limit (default: :func:`max_3d_atoms`, read now)."""
+    heavy, limit = mol.GetNumHeavyAtoms(), max_3d_atoms() if limit is None else limit
     if heavy <= limit:
         return None
     return (f"{TOO_LARGE} ({heavy} heavy atoms, above the limit of {limit} for 3D work; "
@@ -348,7 +350,7 @@ def conformer_ensemble(smiles: str) -> ConformerEnsemble:
 @functools.lru_cache(maxsize=4096)
 def _too_large(key: str, limit: int) -> str | None:
     """:func:`too_large_for_3d` of a canonical SMILES under the heavy-atom ``limit`` in force, kept."""
-    return too_large_for_3d(Chem.MolFromSmiles(key))
+    return too_large_for_3d(Chem.MolFromSmiles(key), limit)
 
 
 def clear_cache() -> None:

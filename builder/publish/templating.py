@@ -125,7 +125,7 @@ def environment(templates: Path = TEMPLATES, compiled: Path | None = None) -> ji
                        table_rows=table_rows, card_rows=card_rows, plain_name=plain_name,
                        card_notes=card_notes, health_codes=health_codes,
                        OUTCOME_TEXT=OUTCOME_TEXT,
-                       is_label=lambda v: isinstance(v, Label), boiling_validation=_boiling_validation(),
+                       boiling_validation=_boiling_validation(),
                        show=show_markup, word=word_markup, rows=rows_markup, tag=tag_markup, value_or=value_or_markup,
                        material_link=material_link_markup, piece=piece_markup, substitute_names=substitute_names,
                        melting_validation=_stored_validation("melting_validation.json"),
