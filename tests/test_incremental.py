@@ -338,6 +338,66 @@ def test_rows_of_the_catalog_wide_pages_are_kept_between_builds(tmp_path, cached
     assert _digest(out) == _cold(folder, tmp_path / "cold-again")
 
 
+def test_an_edit_writes_again_only_the_shards_of_pieces_that_changed(tmp_path, cached, monkeypatch):
+    """The pieces of a catalog-wide file are kept in shards: after one entry's edit a file's pieces are
+    written again only in the shards that lost or gained a piece (at most two per changed entry), and a
+    build with nothing changed writes none; the site still equals a cold build."""
+    import shutil
+
+    from conftest import DEMO
+
+    from builder.derive.catalog import entry_keys
+    from builder.load.entries import load_catalog
+    from builder.publish import pieces as pieces_module
+
+    folder = tmp_path / "entries"
+    shutil.copytree(DEMO, folder)
+    out = tmp_path / "site"
+    written: dict[str, int] = {}
+    original_init, original_put = pieces_module.Pieces.__init__, Cache.put
+    shard_of: dict[str, str] = {}
+
+    made: dict[str, int] = {}
+    original_save = pieces_module.Pieces.save
+
+    def init(self, cache, base, path):
+        original_init(self, cache, base, path)
+        shard_of.update({self._shard_key(i): path for i in range(pieces_module.SHARDS)})
+        self.path = path
+
+    def save(self):
+        made[self.path] = self.made
+        original_save(self)
+
+    def put(self, kind, key, value):
+        if kind == pieces_module.KIND:
+            written[shard_of[key]] = written.get(shard_of[key], 0) + 1
+        original_put(self, kind, key, value)
+
+    monkeypatch.setattr(pieces_module.Pieces, "__init__", init)
+    monkeypatch.setattr(pieces_module.Pieces, "save", save)
+    monkeypatch.setattr(Cache, "put", put)
+    assert _build(folder, out, "--jobs", "1") == 0
+    assert written["catalog.json"] > 2  # the demo's pieces fill more than two shards
+    toluene = folder / "toluene.yaml"
+    text = toluene.read_text(encoding="utf-8")
+    before = entry_keys(load_catalog(folder)[0])
+    toluene.write_text(text.replace("value: 383.75 K", "value: 384.75 K"), encoding="utf-8")
+    changed = {k for k, v in entry_keys(load_catalog(folder)[0]).items() if before.get(k) != v}
+    written.clear()
+    assert _build(folder, out, "--jobs", "1") == 0
+    # a row of the index shows only its entry: its pieces changed with the edited entries
+    assert 0 < written["index.html"] <= 2 * len(changed) < pieces_module.SHARDS
+    # catalog.json's pieces also hold each entry's links, so neighbours of the edited entry change too
+    assert all(0 < n <= 2 * made[path] for path, n in written.items()), (written, made)
+    assert written["catalog.json"] < pieces_module.SHARDS
+    assert _digest(out) == _cold(folder, tmp_path / "cold")
+    written.clear()
+    (folder / "README.txt").write_text("not an entry, but an input of the site\n", encoding="utf-8")
+    assert _build(folder, out, "--jobs", "1") == 0
+    assert written == {}
+
+
 def test_store_compatibility_is_kept_until_a_members_storage_changes(tmp_path, cached):
     """What the cache gives equals working it out afresh; a member's new hazard statement (a new
     storage class) is not answered from the cache."""

@@ -8,7 +8,8 @@ an edited entry, store, model file or code change simply misses.
 
 Where: ``$COHESION_CACHE_DIR``, else ``$XDG_CACHE_HOME/cohesion``, else
 ``~/.cache/cohesion``. Files are pickles, written atomically (a temporary file renamed
-into place); one that cannot be read is ignored and recomputed (said with ``--verbose``).
+into place, so a reader finds the old file, the new one or none, never half of one); one
+that cannot be read is ignored and recomputed (said with ``--verbose``).
 Pickles run code when read, so the cache folder is created private to the user
 (mode 0700) and must not be shared.
 """
@@ -145,6 +146,11 @@ class Cache:
             fd, tmp = tempfile.mkstemp(dir=folder, prefix=".tmp-")
             with os.fdopen(fd, "wb") as fh:
                 pickle.dump(value, fh, protocol=pickle.HIGHEST_PROTOCOL)
+            # the old file goes first: renaming over an existing file makes ext4 write the new one out
+            # to disk at once (its guard for programs that do not sync), 7 ms for a 14 MB file, up to
+            # 20 ms while the build writes the site; a reader in between finds nothing, which is a miss
+            with contextlib.suppress(FileNotFoundError):
+                os.unlink(path)
             os.replace(tmp, path)
         except OSError as exc:  # a full or read-only cache only costs time
             if self.notes:

@@ -5,16 +5,22 @@ nearly all of its rows are as they were. Each row is therefore a *piece*, stored
 key of everything it shows: the entry's derive key (the entry, the stores it names, its
 components, the code and the settings), the name of what makes it, and whatever else the
 row reads (its substitutes, its revision line), given explicitly. The pieces of one file are
-kept together in one cache file (kind ``pieces``), named by the file's site path and the
-site key (code version, settings, revision stamp). A piece is used only when its own key
-matches, so a file left by an older build costs time, never a wrong page; it holds only the
-pieces the last build used, so it does not grow.
+kept in :data:`SHARDS` cache files (kind ``pieces``), named by the file's site path, the
+site key (code version, settings, revision stamp) and the shard number; a piece goes to the
+shard of its key's first hex digit. A piece is used only when its own key matches, so a file
+left by an older build costs time, never a wrong page; each shard holds only the pieces the
+last build used, so it does not grow.
+
+Why shards: the pieces of a 1,000-entry ``catalog.json`` are 14 MB. After one edit only the
+shards that lost or gained a piece are written again (at most two per file), not all of it.
 """
 from __future__ import annotations
 
 from builder.core.cache import Cache, key_of
 
 KIND = "pieces"
+#: cache files per catalog-wide file (a piece's shard is the first hex digit of its key)
+SHARDS = 16
 
 
 class Pieces:
@@ -24,11 +30,21 @@ class Pieces:
     def __init__(self, cache: Cache | None, base: str, path: str):
         self.cache = cache
         self.name = key_of(base, KIND, path)
-        kept = cache.get(KIND, self.name) if cache is not None else None
-        self.kept: dict[str, str] = kept if isinstance(kept, dict) else {}
+        self.kept: dict[str, str] = {}
+        #: the pieces each shard held when read, by shard number
+        self._shards: list[dict] = [{} for _ in range(SHARDS)]
+        if cache is not None:
+            for i in range(SHARDS):
+                kept = cache.get(KIND, self._shard_key(i))
+                if isinstance(kept, dict):
+                    self._shards[i] = kept
+                    self.kept.update(kept)
         self.used: dict[str, str] = {}
         self.made = 0
         self.module = None  # the template module of a page's pieces, made on the first miss
+
+    def _shard_key(self, shard: int) -> str:
+        return key_of(self.name, f"shard {shard} of {SHARDS}")
 
     def get(self, parts: tuple, make) -> str:
         """The piece made from ``parts`` (strings or objects with a stable ``repr``)."""
@@ -43,6 +59,12 @@ class Pieces:
         return text
 
     def save(self) -> None:
-        """Keep this build's pieces for the next one (only when something changed)."""
-        if self.cache is not None and (self.made or self.used.keys() != self.kept.keys()):
-            self.cache.put(KIND, self.name, self.used)
+        """Keep this build's pieces for the next one: each shard whose pieces changed."""
+        if self.cache is None:
+            return
+        shards: list[dict] = [{} for _ in range(SHARDS)]
+        for key, text in self.used.items():
+            shards[int(key[0], 16) % SHARDS][key] = text
+        for i, (now, before) in enumerate(zip(shards, self._shards)):
+            if now.keys() != before.keys() or any(before[k] is not text for k, text in now.items()):
+                self.cache.put(KIND, self._shard_key(i), now)
