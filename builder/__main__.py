@@ -1,5 +1,3 @@
-import sys
+from builder.cli import run
 
-from builder.cli import main
-
-sys.exit(main())
+run()

@@ -8,8 +8,11 @@ read-only folder); the previous output is then untouched.
 from __future__ import annotations
 
 import argparse
+import atexit
 import json
+import os
 import sys
+import threading
 from pathlib import Path
 
 from builder import __version__
@@ -604,5 +607,31 @@ def main(argv: list[str] | None = None) -> int:
     return args.func(args)
 
 
+def run(argv: list[str] | None = None) -> None:
+    """The ``cohesion`` command: ``main``, then an exit that skips freeing every object one by one.
+
+    A build of a large catalog ends with millions of objects alive (the catalog, its derived
+    records, per-process memos); the interpreter's own exit frees each of them, 0.1 s at 1,000
+    entries. Here the exit handlers run first (they end worker pools and remove temporary
+    folders), the output streams are flushed, and the process ends at once with ``main``'s exit
+    status. A command that ends with an exception, or leaves a thread running, exits the usual way.
+    """
+    try:
+        code = main(argv)
+    except SystemExit as stop:  # argparse's usage errors and --help
+        if stop.code is not None and not isinstance(stop.code, int):
+            raise
+        code = stop.code or 0
+    if threading.active_count() > 1 or not hasattr(atexit, "_run_exitfuncs"):
+        sys.exit(code)
+    atexit._run_exitfuncs()
+    try:
+        sys.stdout.flush()
+        sys.stderr.flush()
+    except (OSError, ValueError):  # a closed pipe: let the usual exit report it
+        sys.exit(code)
+    os._exit(code)
+
+
 if __name__ == "__main__":
-    sys.exit(main())
+    run()

@@ -168,3 +168,31 @@ def test_console_script_and_module_entry_point(tmp_path):
     result = subprocess.run([sys.executable, "-m", "builder", "profile", "CCO", "--json"], cwd=ROOT,
                             capture_output=True, text=True, check=True)
     assert json.loads(result.stdout)["formula"] == "C2H6O"
+
+
+def test_the_command_exits_with_mains_status_and_flushed_output(tmp_path):
+    """The command ends without freeing its objects one by one (``builder.cli.run``): its exit status
+    is still ``main``'s, buffered output piped to another program is complete, and exit handlers ran
+    (here: one registered through ``atexit``, which writes a file)."""
+    import tomllib
+
+    script = tomllib.loads((ROOT / "pyproject.toml").read_text(encoding="utf-8"))["project"]["scripts"]
+    assert script["cohesion"] == "builder.cli:run"
+    marker = tmp_path / "handler-ran"
+    code = ("import atexit, pathlib, sys; from builder.cli import run; "
+            f"atexit.register(pathlib.Path({str(marker)!r}).write_text, 'yes'); run(sys.argv[1:])")
+    many = [f"C{'C' * (i % 7)}O" for i in range(40)]
+    ok = subprocess.run([sys.executable, "-c", code, "profile", *many, "--json"], cwd=ROOT,
+                        capture_output=True, text=True)
+    assert ok.returncode == 0
+    lines = ok.stdout.splitlines()  # one JSON object per structure, the last one complete
+    assert len(lines) == 40 and [json.loads(line)["input"] for line in lines] == many
+    assert marker.read_text() == "yes"
+    bad = tmp_path / "entries"
+    bad.mkdir()
+    (bad / "broken.yaml").write_text("name: [unclosed\n", encoding="utf-8")
+    failed = subprocess.run([sys.executable, "-c", code, "check", "--entries", str(bad)], cwd=ROOT,
+                            capture_output=True, text=True)
+    assert failed.returncode == 1 and "broken.yaml:2:1: error: YAML syntax" in failed.stderr
+    usage = subprocess.run([sys.executable, "-c", code, "no-such-command"], cwd=ROOT, capture_output=True, text=True)
+    assert usage.returncode == 2 and "usage:" in usage.stderr

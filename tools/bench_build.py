@@ -80,10 +80,10 @@ def locations_text(stores: int) -> str:
     return "\n".join(lines) + "\n"
 
 #: a child process reports its own peak memory this way (ru_maxrss is in KiB on Linux)
-_RUNNER = ("import resource, sys; from builder.cli import main; code = main(sys.argv[1:]); "
-           "peak = max(resource.getrusage(resource.RUSAGE_SELF).ru_maxrss, "
-           "resource.getrusage(resource.RUSAGE_CHILDREN).ru_maxrss); "
-           "print('PEAK_KIB', peak, file=sys.stderr); sys.exit(code)")
+#: runs the command as ``cohesion`` does (``builder.cli.run``); the peak memory is reported by an exit handler
+_RUNNER = ("import atexit, resource, sys; from builder.cli import run; "
+           "atexit.register(lambda: print('PEAK_KIB', max(resource.getrusage(resource.RUSAGE_SELF).ru_maxrss, "
+           "resource.getrusage(resource.RUSAGE_CHILDREN).ru_maxrss), file=sys.stderr)); run(sys.argv[1:])")
 
 
 def _slug(name: str, used: set[str]) -> str:
