@@ -12,14 +12,15 @@ left by an older build costs time, never a wrong page; each shard holds only the
 last build used, so it does not grow.
 
 Why shards: the pieces of a 1,000-entry ``catalog.json`` are 14 MB. After one edit only the
-shards that lost or gained a piece are written again (at most two per file), not all of it.
+shards that lost or gained a piece are written again (at most two per changed piece), not all
+of it.
 """
 from __future__ import annotations
 
 from builder.core.cache import Cache, key_of
 
 KIND = "pieces"
-#: cache files per catalog-wide file (a piece's shard is the first hex digit of its key)
+#: cache files per catalog-wide file: one per first hex digit of a piece's key (``_shard_of``)
 SHARDS = 16
 
 
@@ -31,14 +32,15 @@ class Pieces:
         self.cache = cache
         self.name = key_of(base, KIND, path)
         self.kept: dict[str, str] = {}
-        #: the pieces each shard held when read, by shard number
-        self._shards: list[dict] = [{} for _ in range(SHARDS)]
+        #: the keys each shard held when read, by shard number (None: no readable shard file)
+        self._read: list[set | None] = [None] * SHARDS
         if cache is not None:
             for i in range(SHARDS):
                 kept = cache.get(KIND, self._shard_key(i))
                 if isinstance(kept, dict):
-                    self._shards[i] = kept
+                    self._read[i] = set(kept)
                     self.kept.update(kept)
+        self._made_in: set[int] = set()  # shards that gained a newly made piece
         self.used: dict[str, str] = {}
         self.made = 0
         self.module = None  # the template module of a page's pieces, made on the first miss
@@ -55,16 +57,23 @@ class Pieces:
             if not isinstance(text, str):
                 text = make()
                 self.made += 1
+                self._made_in.add(_shard_of(key))
             self.used[key] = text
         return text
 
     def save(self) -> None:
-        """Keep this build's pieces for the next one: each shard whose pieces changed."""
+        """Keep this build's pieces for the next one: each shard whose pieces changed, and each shard
+        that had no readable file (an empty one too, so that the next build finds every shard)."""
         if self.cache is None:
             return
         shards: list[dict] = [{} for _ in range(SHARDS)]
         for key, text in self.used.items():
-            shards[int(key[0], 16) % SHARDS][key] = text
-        for i, (now, before) in enumerate(zip(shards, self._shards)):
-            if now.keys() != before.keys() or any(before[k] is not text for k, text in now.items()):
+            shards[_shard_of(key)][key] = text
+        for i, (now, before) in enumerate(zip(shards, self._read)):
+            if before is None or i in self._made_in or now.keys() != before:
                 self.cache.put(KIND, self._shard_key(i), now)
+
+
+def _shard_of(key: str) -> int:
+    """The shard of a piece: the first hex digit of its key."""
+    return int(key[0], 16)
