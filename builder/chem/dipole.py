@@ -50,7 +50,7 @@ radicals (open-shell; outside both charge models).
 Accuracy on the held-out 20 % (``builder/data/dipole_validation.json``; n = 125, of which
 105 have a clear reference below 0.2 D or above 0.8 D): mean absolute error 0.30 D (0.32 D
 on the clear ones; uncorrected MMFF94 0.59 and 0.64 D), root-mean-square error 0.54 D,
-polar/non-polar agreement 97.1 % at 0.5 D. ``python tools/bench_profile.py`` gives the
+polar/non-polar agreement 97.1 % at 0.5 D. ``python tests/benchmarks/bench_profile.py`` gives the
 figures over the whole reference set. The standard uncertainty given with a value is
 that of the molecule's family (:func:`molecule_family`), the root-mean-square of
 out-of-sample residuals (5-fold out-of-fold on the training part plus the held-out

@@ -56,7 +56,7 @@ from builder.derive.solvency import blend_values
 #: (the catalog's own figures: a fit to measured data is good to about 2 %; an extrapolation less)
 U_LN_ANTOINE, U_LN_ANTOINE_OUTSIDE = 0.02, 0.10
 #: standard uncertainty of Liaw's model itself (K): its measured MAE on ethanol–water, 1.9 K
-#: (tools/bench_mixture.py), as a standard uncertainty (× 1.25), rounded up
+#: (tests/benchmarks/bench_mixture.py), as a standard uncertainty (× 1.25), rounded up
 U_FLASH_MODEL = 2.5
 #: temperatures of the mixture's vapor-pressure curve (K)
 CURVE_LOW, CURVE_POINTS = 253.15, 61

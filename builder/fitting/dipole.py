@@ -68,7 +68,7 @@ class Record:
 def load_records() -> list[Record]:
     """Return every usable reference moment of ``chemicals`` (CCCBDB, Muller, Poling), by CAS.
 
-    Same rules as ``tools/bench_profile.py`` except that moments between 0.2 and 0.8 D
+    Same rules as ``tests/benchmarks/bench_profile.py`` except that moments between 0.2 and 0.8 D
     are kept (they are real references; only the polar/non-polar count leaves them out).
     """
     from chemicals import dipole

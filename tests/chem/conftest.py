@@ -1,7 +1,7 @@
 """Shared fixtures for the chemistry tests.
 
 Reference dipole moments come from the ``chemicals`` package (1.5.2); the loader lives
-in ``tools/bench_profile.py`` so that the benchmark and the tests use the same set.
+in ``tests/benchmarks/bench_profile.py`` so that the benchmark and the tests use the same set.
 """
 
 from __future__ import annotations

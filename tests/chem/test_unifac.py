@@ -18,7 +18,7 @@ from builder.chem.unifac import Groups, MissingInteractionParameters, activity_c
 
 thermo_unifac = pytest.importorskip("thermo.unifac")
 
-import bench_mixture  # tools/: the shared reference systems (name → SMILES, CAS RN)
+import bench_mixture  # tests/benchmarks/: the shared reference systems (name → SMILES, CAS RN)
 
 # (name, CAS RN, SMILES); SMILES from chemicals.identifiers (chemicals 1.5.2)
 DDBST_CHECKED = [

@@ -3,7 +3,7 @@
 - Ideal solutions: Raoult's law itself, ``chemicals.flash_basic.flash_ideal`` (chemicals 1.5.2),
   and the bubble points quoted in /work/shared/briefs/methods.md (Raoult + Poling Antoine).
 - Non-ideal: the same equilibrium solved with thermo's UNIFAC activity coefficients and scipy's
-  root finders (``tools/bench_mixture.py:thermo_bubble_dew``), same Poling Antoine constants.
+  root finders (``tests/benchmarks/bench_mixture.py:thermo_bubble_dew``), same Poling Antoine constants.
 - Azeotropes: the CRC Handbook azeotrope table, from memory (``bench_mixture.AZEOTROPES``).
 """
 from __future__ import annotations

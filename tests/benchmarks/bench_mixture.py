@@ -2,8 +2,8 @@
 
 Run from the repository root (needs the test extra: thermo 0.6.1, chemicals 1.5.2)::
 
-    .venv/bin/python tools/bench_mixture.py
-    .venv/bin/python tools/bench_mixture.py --runs 50
+    .venv/bin/python tests/benchmarks/bench_mixture.py
+    .venv/bin/python tests/benchmarks/bench_mixture.py --runs 50
 
 Prints, against references outside the project:
 
@@ -33,8 +33,8 @@ import time
 from pathlib import Path
 
 HERE = Path(__file__).resolve().parent
-if str(HERE.parent) not in sys.path:
-    sys.path.insert(0, str(HERE.parent))
+if str(HERE.parents[1]) not in sys.path:
+    sys.path.insert(0, str(HERE.parents[1]))
 
 from builder.chem import unifac, vle
 from builder.chem.mixture_flash import mixture_flash_point

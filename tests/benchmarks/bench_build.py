@@ -26,7 +26,7 @@ only if the build scales linearly, not more because the molecules got bigger. Py
 first (``compileall``), as a normal installation does on first use (this machine's environment
 sets ``PYTHONDONTWRITEBYTECODE``, which would make every build compile the builder again).
 
-    python tools/bench_build.py --sizes 250,1000,3000 [--repeat N] [--jobs N] [--store-size N]
+    python tests/benchmarks/bench_build.py --sizes 250,1000,3000 [--repeat N] [--jobs N] [--store-size N]
 
 Needs the test extra (``pip install -e '.[test]'``) for ``chemicals``.
 """
@@ -44,7 +44,7 @@ import tempfile
 import time
 from pathlib import Path
 
-ROOT = Path(__file__).resolve().parents[1]
+ROOT = Path(__file__).resolve().parents[2]
 if str(ROOT) not in sys.path:
     sys.path.insert(0, str(ROOT))
 

@@ -7,8 +7,8 @@ union of the three tables; SMILES from ``chemicals.identifiers.search_chemical``
 
 Run from the repository root::
 
-    python tools/bench_profile.py            # whole reference set
-    python tools/bench_profile.py --limit 100
+    python tests/benchmarks/bench_profile.py            # whole reference set
+    python tests/benchmarks/bench_profile.py --limit 100
 
 Prints, for the neutral single molecules of the reference set with at most 30 heavy
 atoms whose reference moment is below 0.2 D or above 0.8 D (:func:`reference_dipoles`,
@@ -34,8 +34,8 @@ from dataclasses import dataclass
 from pathlib import Path
 
 HERE = Path(__file__).resolve().parent
-if str(HERE.parent) not in sys.path:
-    sys.path.insert(0, str(HERE.parent))
+if str(HERE.parents[1]) not in sys.path:
+    sys.path.insert(0, str(HERE.parents[1]))
 
 from builder.chem.dipole import POLAR_THRESHOLD_D, dipole_moment
 from builder.chem.forces import force_profile
