@@ -87,3 +87,34 @@ def test_text_is_escaped_as_the_standard_library_escapes_it():
 
     for text in ("a & b", "<script>", "x > y < z", "&amp;", "plain", "R&D <lab> & co >", ""):
         assert svgchart.escape(text) == reference(text)
+
+
+class _EveryBox:
+    """A ``Taken`` without the grid: every box compared with every other (the brute-force reference)."""
+
+    def __init__(self):
+        self.boxes = []
+
+    def add(self, box):
+        self.boxes.append(box)
+
+    def hit(self, box):
+        from builder.publish.placement import overlaps
+
+        return any(overlaps(box, other) for other in self.boxes)
+
+
+@pytest.mark.parametrize("cell", [4.0, 8.0, 24.0, 100.0])
+def test_the_name_grid_places_names_as_comparing_every_box_would(cell, monkeypatch):
+    """The grid of taken boxes only narrows the comparisons: on a crowded chart (400 points, a
+    fixed random seed) it must give the places that comparing with every box gives, whatever its cell size."""
+    import random
+
+    from builder.publish import placement
+
+    rng = random.Random(7)
+    items = [(f"name {i} " + "x" * rng.randrange(12), rng.uniform(0, 600), rng.uniform(0, 400)) for i in range(400)]
+    reference = placement.place_names(items, (0, 0, 600, 400), 7.0, taken=_EveryBox())
+    monkeypatch.setattr(placement.Taken, "CELL", cell)
+    assert placement.place_names(items, (0, 0, 600, 400), 7.0) == reference
+    assert 30 < len(reference[0]) < 390  # crowded: some names placed, some left off

