@@ -172,3 +172,22 @@ def test_highlighted_drawing_is_deterministic():
     assert depict_svg("CCOCC", highlight=(1, 2, 3)) == first
     assert "#FFC659" in first and "#FFC659" not in depict_svg("CCOCC")
     assert depict_svg("CCOCC", highlight=(99,)) == depict_svg("CCOCC")  # indices outside the molecule are ignored
+
+
+def test_store_members_are_each_stores_materials_in_catalog_order():
+    """One pass per catalog gives what filtering the whole catalog store by store gives (the
+    reference here), a store named twice by one entry holding it once."""
+    from types import SimpleNamespace
+
+    from builder.derive.catalog import store_members
+
+    def item(eid, *stores):
+        return SimpleNamespace(entry=SimpleNamespace(id=eid, catalog=SimpleNamespace(locations=stores)))
+
+    derived = (item("b", "s1", "s2"), item("a", "s2"), item("c"), item("d", "s1", "s1"), item("e", "s3"))
+    grouped = store_members(derived)
+    for key in ("s1", "s2", "s3"):
+        assert grouped[key] == tuple(d for d in derived if key in d.entry.catalog.locations)
+    assert set(grouped) == {"s1", "s2", "s3"}
+    assert store_members(derived) is grouped  # the build's tuple: grouped once
+    assert store_members(list(derived))["s1"] == grouped["s1"]

@@ -8,6 +8,8 @@ is the same whatever the number of processes.
 from __future__ import annotations
 
 import multiprocessing
+from collections.abc import Mapping
+from types import MappingProxyType
 import os
 
 from builder.core.cache import (
@@ -21,6 +23,7 @@ from builder.core.diagnostics import Diagnostic
 from builder.core.model import Catalog, Entry
 from builder.core.workers import fork_pool
 from builder.derive.entry import Derived, derive_entry
+from builder.chem.memo import for_last
 
 #: fewer entries to compute than this are not worth starting processes for
 MIN_PARALLEL = 6
@@ -188,3 +191,27 @@ def _run_stage(tasks, results, jobs, cache, state, total, progress) -> None:
         unread = read(kept) + todo
     for task in unread:
         finished(task, *derive_safely(*task[:3]))
+
+
+def store_members(derived) -> Mapping[str, tuple[Derived, ...]]:
+    """The derived results per store key their entries name, each in the order of ``derived``.
+
+    One pass over the catalog rather than one per store: the by-store page, the store sheets and
+    cards, the compatibility keys and the store checks each ask about every store, and at 10,000
+    entries in 40 stores the passes per store took about 0.5 s each time. For the build's tuple
+    the grouping is made once (``for_last``); read-only.
+    """
+    if isinstance(derived, tuple):
+        return _tuple_members(derived)
+    return _group_by_store(derived)
+
+
+def _group_by_store(derived) -> Mapping[str, tuple[Derived, ...]]:
+    groups: dict[str, list[Derived]] = {}
+    for d in derived:
+        for key in dict.fromkeys(d.entry.catalog.locations):  # a store named twice holds it once
+            groups.setdefault(key, []).append(d)
+    return MappingProxyType({k: tuple(v) for k, v in groups.items()})
+
+
+_tuple_members = for_last(_group_by_store)

@@ -38,6 +38,18 @@ class Link:
     why: str
 
 
+def links_text(links) -> str:
+    """An entry's links as one text, for the keys of the pages that show them (quicker than the
+    links' ``repr``: 250,000 links at 10,000 entries). Relations and entry ids hold no separator
+    (they are names of our own and file names); each sentence is preceded by its length, since a
+    component's fraction is the entry's own text: two different lists never give one text.
+
+    >>> links_text([Link("isomer", "b", "same formula C4H10"), Link("near-bp", "c", "x")])
+    'isomer\\x1fb\\x1f18:same formula C4H10\\x1enear-bp\\x1fc\\x1f1:x'
+    """
+    return "\x1e".join(f"{l.relation}\x1f{l.target}\x1f{len(l.why)}:{l.why}" for l in links)
+
+
 @lru_cache(maxsize=16384)
 def _ch2_signature(formula: str) -> tuple[int, int, frozenset]:
     """(carbons, hydrogens, the other elements' counts) of a formula, what a CH2 step leaves alone."""

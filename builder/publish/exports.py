@@ -62,9 +62,15 @@ def _tail() -> str:
     return f' "format": {json.dumps(FORMAT)},\n "format_version": {FORMAT_VERSION}\n}}\n'
 
 
-def catalog_json_from_parts(parts: list[str]) -> str:
-    """``catalog.json`` from each entry's ``entry_part``: the same bytes as ``catalog_json``."""
-    entries = ' "entries": []' if not parts else ' "entries": [\n' + ",\n".join(_at_depth(p, 2) for p in parts) + "\n ]"
+def catalog_piece(part: str) -> str:
+    """An entry's ``entry_part`` as it stands in ``catalog.json`` (two levels deep): the piece kept
+    between builds, so that putting the file together again is one join."""
+    return _at_depth(part, 2)
+
+
+def catalog_json_from_pieces(pieces: list[str]) -> str:
+    """``catalog.json`` from each entry's ``catalog_piece``: the same bytes as ``catalog_json``."""
+    entries = ' "entries": []' if not pieces else ' "entries": [\n' + ",\n".join(pieces) + "\n ]"
     return _head() + entries + ",\n" + _tail()
 
 

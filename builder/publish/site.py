@@ -14,9 +14,10 @@ from builder.core.cache import Cache, code_version, key_of, settings_key
 from builder.core.model import Catalog
 from builder.core.workers import fork_pool
 from builder.derive.catalog import entry_keys as derive_keys
+from builder.derive.catalog import store_members
 from builder.derive.entry import Derived
 from builder.derive.forces import FORCE_WORDS
-from builder.derive.links import Link, cross_links, homologous_series
+from builder.derive.links import Link, cross_links, homologous_series, links_text
 from builder.derive.solvency import params_of, solvency_relations, solvent_of
 from builder.publish import exports, solvency_chart, svgchart
 from builder.publish.pieces import Pieces
@@ -52,20 +53,18 @@ def _entry_uses(d: Derived) -> tuple[list, list]:
 
 def _uses(catalog: Catalog, derived) -> tuple[dict, dict]:
     """Back-links: source key → [(derived, value name)], method id → [(derived, value name)], each
-    list in order of entry id, then value name, without repeats."""
-    by_source: dict[str, set] = {k: set() for k in catalog.sources}
-    by_method: dict[str, set] = {}
-    for d in derived:
-        eid = d.entry.id
+    list in order of entry id, then value name, without repeats (one pass over the entries in id
+    order: a pair can repeat only within one entry)."""
+    by_source: dict[str, list] = {k: [] for k in catalog.sources}
+    by_method: dict[str, list] = {}
+    for d in sorted(derived, key=lambda d: d.entry.id):
         sources, methods = _entry_uses(d)
-        for source, name in sources:
+        for source, name in sorted(set(sources)):
             if source in by_source:
-                by_source[source].add((eid, name))
-        for method, name in methods:
-            by_method.setdefault(method, set()).add((eid, name))
-    index = {d.entry.id: d for d in derived}
-    return ({k: [(index[i], n) for i, n in sorted(v)] for k, v in by_source.items()},
-            {k: [(index[i], n) for i, n in sorted(v)] for k, v in by_method.items()})
+                by_source[source].append((d, name))
+        for method, name in sorted(set(methods)):
+            by_method.setdefault(method, []).append((d, name))
+    return by_source, by_method
 
 
 def _groups(catalog: Catalog, derived) -> dict:
@@ -145,7 +144,7 @@ def render_site(catalog: Catalog, derived: tuple[Derived, ...], out: Path, diagn
     relations = solvency_relations(derived, cache)
     by_id = {d.entry.id: d for d in derived}
     # what every catalog-wide page is made from: each entry as derived, its links, the stores and sources
-    link_text = {eid: repr(own) for eid, own in links.items()}  # each entry's links as a key, made once
+    link_text = {eid: links_text(own) for eid, own in links.items()}  # each entry's links as a key, made once
     whole = key_of(base, "whole", *(f"{k}={v}" for k, v in sorted(entry_keys.items())),
                    *(f"{k}:{link_text[k]}" for k in sorted(links)),
                    repr(catalog.locations), repr(catalog.sources), repr(tuple(diagnostics)))
@@ -154,7 +153,7 @@ def render_site(catalog: Catalog, derived: tuple[Derived, ...], out: Path, diagn
     series_charts = _catalog_charts(derived, wide, base)
     wide.append(lambda w: w.made("search-index.js", whole, lambda: exports.search_index_js(derived)))
     # each entry's JSON text is made from its entry and its links; catalog.json keeps them as pieces
-    parts = {d.entry.id: key_of(base, "json", entry_keys[d.entry.id], link_text.get(d.entry.id, "()"))
+    parts = {d.entry.id: key_of(base, "json", entry_keys[d.entry.id], link_text.get(d.entry.id, ""))
              for d in derived}
 
     def json_files(w):
@@ -172,8 +171,9 @@ def render_site(catalog: Catalog, derived: tuple[Derived, ...], out: Path, diagn
             w.made(f"data/{d.entry.id}.json", parts[d.entry.id],
                    lambda d=d: exports.entry_file_json_from_part(part(d)))
         w.made("catalog.json", whole, lambda: _with_pieces(
-            cache, base, "catalog.json", lambda pieces: exports.catalog_json_from_parts(
-                [pieces.get((parts[d.entry.id],), lambda d=d: part(d)) for d in derived])))
+            cache, base, "catalog.json", lambda pieces: exports.catalog_json_from_pieces(
+                [pieces.get((parts[d.entry.id], "nested"), lambda d=d: exports.catalog_piece(part(d)))
+                 for d in derived])))
 
     wide.append(json_files)
     wide.append(lambda w: w.made("catalog.csv", whole, lambda: _with_pieces(
@@ -226,8 +226,9 @@ def render_site(catalog: Catalog, derived: tuple[Derived, ...], out: Path, diagn
     cards_per_page = 8
     wide.append(lambda w: listing(w, "cards/all.html", "cards.html", whole, title="whole catalog", cards=derived,
                                   per_page=cards_per_page))
+    by_store = store_members(derived)
     for key, loc in catalog.locations.items():
-        members = [d for d in derived if key in d.entry.catalog.locations]
+        members = list(by_store.get(key, ()))
         members_key = key_of(base, "store", repr(loc), *(entry_keys[d.entry.id] for d in members))
 
         def store_files(w, key=key, loc=loc, members=members, members_key=members_key):
@@ -337,7 +338,7 @@ class _EntryFiles:
         substitutes = self.relations.substitutes.get(eid, ())
         matches = self.relations.matches.get(eid, ())
         sheet_key = key_of(base, "datasheet", own, revision_text(self.revision, d.entry),
-                           self.link_text.get(eid, "()"),
+                           self.link_text.get(eid, ""),
                            repr([(link.target, by_id[link.target].entry.name) for link in mine if link.target in by_id]),
                            repr([catalog.locations.get(k) for k in d.entry.catalog.locations]), repr(sources),
                            repr(substitutes), repr(matches),

@@ -20,6 +20,7 @@ from builder.chem.storage import (
 from builder.core.cache import Cache, code_version, key_of
 from builder.core.model import Catalog
 from builder.core.units import celsius_text
+from builder.derive.catalog import store_members
 from builder.derive.entry import Derived
 
 BOILING_MARGIN_K = 5.0
@@ -42,7 +43,7 @@ def store_sheet(catalog: Catalog, derived: tuple[Derived, ...], key: str, compat
     the store's ``store_compatibility`` when the caller has it already."""
     loc = catalog.locations[key]
     rated = loc.max_store_temperature.value if loc.max_store_temperature else None
-    members = [d for d in derived if key in d.entry.catalog.locations]
+    members = list(store_members(derived).get(key, ()))
 
     def order(d):
         cat = d.label("flammable_category")
@@ -75,7 +76,7 @@ def store_compatibility(catalog: Catalog, derived, key: str) -> dict:
     ``apart_pairs`` (how many pairs those are), ``limits`` (sentences), ``count`` (keep-separate pairs plus
     limits exceeded: what the by-store page shows), ``names`` (id -> name), ``source``."""
     loc = catalog.locations[key]
-    members = [d for d in derived if key in d.entry.catalog.locations and getattr(d, "storage", None) is not None]
+    members = [d for d in store_members(derived).get(key, ()) if getattr(d, "storage", None) is not None]
     assigned = [(d.entry.id, d.storage) for d in members]
     table = default_table()
     limits = []
@@ -114,8 +115,8 @@ class KeptCompatibility:
         self._counts: dict[str, dict] = {}
 
     def _name(self, key: str) -> str:
-        members = [(d.entry.id, d.entry.name, d.storage, d.entry.catalog.container) for d in self.derived
-                   if key in d.entry.catalog.locations and getattr(d, "storage", None) is not None]
+        members = [(d.entry.id, d.entry.name, d.storage, d.entry.catalog.container)
+                   for d in store_members(self.derived).get(key, ()) if getattr(d, "storage", None) is not None]
         return key_of("store-compatibility", code_version(), repr(self.catalog.locations[key]), repr(members))
 
     def full(self, key: str) -> dict:

@@ -12,6 +12,7 @@ import os
 import posixpath
 import shutil
 import stat
+import weakref
 from pathlib import Path
 
 import jinja2
@@ -140,22 +141,34 @@ def value_label(name: str) -> str | None:
     return q.label if q else None
 
 
-def use_list(uses, url, labels: bool = True, pieces=None) -> Markup:
+def use_list(uses, url, labels: bool = True) -> Markup:
     """'Name (what it is used for); …' for the (derived, value name) pairs of a source or a method.
 
-    Written here rather than with a macro per item: at a thousand materials these lists hold
-    tens of thousands of links. With ``pieces`` (the page's ``Pieces``), a list whose materials
-    and value names are unchanged is not written again.
+    Written here rather than with a macro per item: these lists hold a link per value that uses a
+    source or method, tens of thousands of them at a thousand materials, and every material in
+    many lists of one page. So each material's link is made once per page (``_anchors``, kept for
+    the page's ``url`` function) and each value name's wording once per build (``_use_words``).
     """
-    if pieces is not None:
-        shown = [(d.entry.id, d.entry.name, name) for d, name in uses]
-        return Markup(pieces.get(("uses", str(labels), shown), lambda: str(use_list(uses, url, labels))))
+    anchors = _anchors.setdefault(url, {})
     out = []
     for d, name in uses:
-        href = Markup.escape(url(short_path(f"materials/{d.entry.id}.html")))
-        what = property_label(name).lower() if labels else name.replace("_", " ")
-        out.append(f'<a href="{href}">{Markup.escape(visible(d.entry.name))}</a> ({Markup.escape(what)})')
+        eid = d.entry.id
+        link = anchors.get(eid)
+        if link is None:
+            href = Markup.escape(url(short_path(f"materials/{eid}.html")))
+            link = anchors[eid] = f'<a href="{href}">{Markup.escape(visible(d.entry.name))}</a>'
+        out.append(f"{link} ({_use_words(name, labels)})")
     return Markup("; ".join(out))
+
+
+#: page ``url`` function -> {entry id: that material's link on the page}; gone with the page
+_anchors: weakref.WeakKeyDictionary = weakref.WeakKeyDictionary()
+
+
+@functools.lru_cache(maxsize=1024)
+def _use_words(name: str, labels: bool) -> str:
+    """How ``use_list`` names a value: its label in lower case, or its name in words (escaped)."""
+    return str(Markup.escape(property_label(name).lower() if labels else name.replace("_", " ")))
 
 
 def property_label(name: str) -> str:

@@ -30,6 +30,7 @@ from __future__ import annotations
 from builder.chem.storage import OUTCOME_TEXT, default_table, flammable_volume, hubs, store_conflicts
 from builder.core.diagnostics import Diagnostic
 from builder.core.model import Catalog
+from builder.derive.catalog import store_members
 from builder.derive.entry import Derived
 
 
@@ -37,8 +38,10 @@ def locations_path(catalog: Catalog) -> str:
     return f"{catalog.root}/locations.yaml"  # as the loader shows it
 
 
-def _members(catalog: Catalog, by_id: dict, key: str) -> list[Derived]:
-    return [by_id[e.id] for e in catalog.entries if key in e.catalog.locations and e.id in by_id]
+def _members(derived, by_id: dict, key: str) -> list[Derived]:
+    """The store's members that have a storage assignment, in entry id order (as the catalog's)."""
+    return sorted((d for d in store_members(derived).get(key, ()) if by_id.get(d.entry.id) is d),
+                  key=lambda d: d.entry.id)
 
 
 def _at(d: Derived, severity: str, message: str, hint: str) -> Diagnostic:
@@ -105,7 +108,7 @@ def check_stores(catalog: Catalog, derived, named: set[str] | None = None) -> li
     by_id = {d.entry.id: d for d in derived if getattr(d, "storage", None) is not None}
     out = []
     for key in sorted(catalog.locations):
-        members = _members(catalog, by_id, key)
+        members = _members(derived, by_id, key)
         out += _conflict_warnings(key, members, named) + _limit_warnings(catalog, key, members)
     return out
 
