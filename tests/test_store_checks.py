@@ -189,5 +189,9 @@ def test_store_members_are_each_stores_materials_in_catalog_order():
     for key in ("s1", "s2", "s3"):
         assert grouped[key] == tuple(d for d in derived if key in d.entry.catalog.locations)
     assert set(grouped) == {"s1", "s2", "s3"}
-    assert store_members(derived) is grouped  # the build's tuple: grouped once
-    assert store_members(list(derived))["s1"] == grouped["s1"]
+    assert store_members(list(derived)) is grouped  # the same materials: grouped once
+    changed = list(derived)
+    changed[0] = item("b", "s3")
+    assert store_members(changed)["s3"] == (changed[0], derived[4])  # other materials: grouped again
+    twin = [item(d.entry.id, *d.entry.catalog.locations) for d in derived]  # equal, not the same
+    assert all(a is b for a, b in zip(store_members(twin)["s1"], (twin[0], twin[3])))

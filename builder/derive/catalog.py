@@ -8,6 +8,7 @@ is the same whatever the number of processes.
 from __future__ import annotations
 
 import multiprocessing
+import operator
 from collections.abc import Mapping
 from types import MappingProxyType
 import os
@@ -23,7 +24,6 @@ from builder.core.diagnostics import Diagnostic
 from builder.core.model import Catalog, Entry
 from builder.core.workers import fork_pool
 from builder.derive.entry import Derived, derive_entry
-from builder.chem.memo import for_last
 
 #: fewer entries to compute than this are not worth starting processes for
 MIN_PARALLEL = 6
@@ -198,12 +198,19 @@ def store_members(derived) -> Mapping[str, tuple[Derived, ...]]:
 
     One pass over the catalog rather than one per store: the by-store page, the store sheets and
     cards, the compatibility keys and the store checks each ask about every store, and at 10,000
-    entries in 40 stores the passes per store took about 0.5 s each time. For the build's tuple
-    the grouping is made once (``for_last``); read-only.
+    entries in 40 stores the passes per store took about 0.5 s each time. The grouping of the last
+    catalog asked about is kept (its items compared by identity, so a list changed since is grouped
+    again); read-only.
     """
-    if isinstance(derived, tuple):
-        return _tuple_members(derived)
-    return _group_by_store(derived)
+    items = tuple(derived)
+    last = _last_members[0]
+    # the very same objects (equal ones would hand the caller another build's results)
+    if last is None or len(last) != len(items) or not all(map(operator.is_, last, items)):
+        _last_members[:] = [items, _group_by_store(items)]
+    return _last_members[1]
+
+
+_last_members: list = [None, None]
 
 
 def _group_by_store(derived) -> Mapping[str, tuple[Derived, ...]]:
@@ -212,6 +219,3 @@ def _group_by_store(derived) -> Mapping[str, tuple[Derived, ...]]:
         for key in dict.fromkeys(d.entry.catalog.locations):  # a store named twice holds it once
             groups.setdefault(key, []).append(d)
     return MappingProxyType({k: tuple(v) for k, v in groups.items()})
-
-
-_tuple_members = for_last(_group_by_store)
