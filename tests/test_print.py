@@ -140,6 +140,24 @@ def test_print_command_writes_pdfs(make_entries, tmp_path, capsys, chromium_comm
     assert CAUTION.split(".")[0] in _text(PdfReader(out / "a4" / "materials" / "ethanol.pdf"))
 
 
+def test_the_print_command_works_as_a_process_of_its_own(make_entries, tmp_path, chromium_command):
+    """``cohesion print`` started the way a shell starts it: only fds 0-2 open (subprocess closes the
+    rest), so the browser pipes must be placed on fds 3 and 4 without this process's own 3 and 4
+    (in pytest those happen to be open, which hid a failure of the command itself), for both jobs."""
+    import subprocess
+    import sys
+
+    folder = make_entries({"ethanol.yaml": ETHANOL})
+    out = tmp_path / "pdf"
+    env = dict(os.environ, COHESION_CHROMIUM=chromium_command, COHESION_CACHE_DIR=str(tmp_path / "cache"))
+    done = subprocess.run([sys.executable, "-m", "builder", "print", "--entries", str(folder), "--out", str(out),
+                           "--jobs", "2"], env=env, capture_output=True, text=True, stdin=subprocess.DEVNULL,
+                          timeout=300)
+    assert done.returncode == 0, done.stderr
+    assert len(list(out.rglob("*.pdf"))) == 8  # 4 pages on A4 and on Letter
+    assert len(PdfReader(out / "letter" / "materials" / "ethanol.pdf").pages) == 1
+
+
 def test_print_without_chromium_says_so(make_entries, tmp_path, capsys, monkeypatch):
     monkeypatch.setitem(os.environ, "COHESION_CHROMIUM", str(tmp_path / "no-such-chromium"))
     folder = make_entries({"ethanol.yaml": ETHANOL})

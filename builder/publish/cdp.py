@@ -9,6 +9,7 @@ waits for its load event and asks for ``Page.printToPDF``: the same printing as
 from __future__ import annotations
 
 import base64
+import fcntl
 import json
 import os
 import select
@@ -32,13 +33,17 @@ class Browser:
         self.timeout = timeout
         to_browser_r, self._to_browser = os.pipe()
         self._from_browser, from_browser_w = os.pipe()
-        # the child sees the pipes as fds 3 (commands in) and 4 (replies out)
-        # the browser's own log goes to a file: an unread pipe would fill and stall it
+        # the child sees the pipes as fds 3 (commands in) and 4 (replies out), placed there by
+        # ``_dup_to`` after the fork. Not ``pass_fds=(3, 4)``: that makes this process's own fds 3
+        # and 4 inheritable in the child before ``_dup_to`` runs, and where they are not open (a
+        # plain ``cohesion print``) the child fails with EBADF. ``close_fds=False`` is safe: Python
+        # opens every file and pipe not inheritable (PEP 446), so the browser inherits only 0-4.
+        # The browser's own log goes to a file: an unread pipe would fill and stall it
         self._log = open(Path(profile) / "chromium.log", "wb")
         self.process = subprocess.Popen(
             [chromium, *flags, f"--user-data-dir={profile}", "--remote-debugging-pipe", "--no-startup-window"],
             stdin=subprocess.DEVNULL, stdout=self._log, stderr=self._log,
-            pass_fds=(3, 4), preexec_fn=_dup_to(to_browser_r, from_browser_w))
+            close_fds=False, preexec_fn=_dup_to(to_browser_r, from_browser_w))
         os.close(to_browser_r)
         os.close(from_browser_w)
         self._buffer = b""
@@ -136,9 +141,13 @@ class Browser:
 
 
 def _dup_to(commands_in: int, replies_out: int):
+    """A function that, in the forked child, puts the two pipe ends on fds 3 and 4, inheritable."""
     def place() -> None:
-        # move both ends out of the way first, in case they already sit on 3 or 4
-        a, b = os.dup(commands_in), os.dup(replies_out)
+        # copy both ends above 4 first, in case one already sits on 3 or 4; not with os.dup, whose
+        # copy can land on 3 or 4 itself: dup2 onto the same fd does nothing (the fd stays
+        # close-on-exec) and closing the copy would then close the fd just placed
+        a = fcntl.fcntl(commands_in, fcntl.F_DUPFD, 5)
+        b = fcntl.fcntl(replies_out, fcntl.F_DUPFD, 5)
         os.dup2(a, 3)
         os.dup2(b, 4)
         os.close(a)
