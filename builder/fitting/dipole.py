@@ -65,6 +65,24 @@ class Record:
     held_out: bool
 
 
+def reference_molecule(cas: str):
+    """(``chemicals`` identifier record, RDKit Mol) of a reference compound usable for the dipole
+    comparison, or None: a SMILES that parses, one neutral component, at most ``MAX_HEAVY_ATOMS``
+    heavy atoms (the rules the fit and ``tests/benchmarks/bench_profile.py`` share)."""
+    from chemicals.identifiers import search_chemical
+
+    try:
+        meta = search_chemical(cas)
+    except ValueError:
+        return None
+    mol = Chem.MolFromSmiles(meta.smiles) if meta.smiles else None
+    if mol is None or "." in meta.smiles or Chem.GetFormalCharge(mol) != 0:
+        return None
+    if mol.GetNumHeavyAtoms() > MAX_HEAVY_ATOMS:
+        return None
+    return meta, mol
+
+
 def load_records() -> list[Record]:
     """Return every usable reference moment of ``chemicals`` (CCCBDB, Muller, Poling), by CAS.
 
@@ -72,7 +90,6 @@ def load_records() -> list[Record]:
     are kept (they are real references; only the polar/non-polar count leaves them out).
     """
     from chemicals import dipole
-    from chemicals.identifiers import search_chemical
 
     RDLogger.DisableLog("rdApp.*")
     dipole._load_dipole_data()
@@ -82,15 +99,10 @@ def load_records() -> list[Record]:
         value = dipole.dipole_moment(cas)
         if value is None:
             continue
-        try:
-            meta = search_chemical(cas)
-        except ValueError:
+        found = reference_molecule(cas)
+        if found is None:
             continue
-        mol = Chem.MolFromSmiles(meta.smiles) if meta.smiles else None
-        if mol is None or "." in meta.smiles or Chem.GetFormalCharge(mol) != 0:
-            continue
-        if mol.GetNumHeavyAtoms() > MAX_HEAVY_ATOMS:
-            continue
+        meta, mol = found
         key = Chem.MolToInchiKey(mol)
         if not key:
             continue

@@ -47,7 +47,7 @@ CLEAR_BELOW_D = 0.2
 CLEAR_ABOVE_D = 0.8
 """Reference moments above this count as clearly polar [D]."""
 
-MAX_HEAVY_ATOMS = 30
+from builder.fitting.dipole import MAX_HEAVY_ATOMS  # noqa: E402  the limit the fit uses
 
 
 @dataclass(frozen=True)
@@ -67,8 +67,9 @@ def reference_dipoles() -> tuple[ReferenceDipole, ...]:
     :data:`MAX_HEAVY_ATOMS` heavy atoms; SMILES must parse in RDKit. Sorted by CAS.
     """
     from chemicals import dipole
-    from chemicals.identifiers import search_chemical
-    from rdkit import Chem, RDLogger
+    from rdkit import RDLogger
+
+    from builder.fitting.dipole import reference_molecule
 
     RDLogger.DisableLog("rdApp.*")
     dipole._load_dipole_data()  # the frames below exist only after this private loader
@@ -79,15 +80,10 @@ def reference_dipoles() -> tuple[ReferenceDipole, ...]:
         value = dipole.dipole_moment(cas)
         if value is None or CLEAR_BELOW_D <= value <= CLEAR_ABOVE_D:
             continue
-        try:
-            meta = search_chemical(cas)
-        except ValueError:
+        found = reference_molecule(cas)  # parses, one neutral component, small enough
+        if found is None:
             continue
-        mol = Chem.MolFromSmiles(meta.smiles) if meta.smiles else None
-        if mol is None or "." in meta.smiles or Chem.GetFormalCharge(mol) != 0:
-            continue
-        if mol.GetNumHeavyAtoms() > MAX_HEAVY_ATOMS:
-            continue
+        meta, mol = found
         rows.append(ReferenceDipole(cas, meta.common_name, meta.smiles, float(value),
                                     mol.GetNumHeavyAtoms()))
     RDLogger.EnableLog("rdApp.*")
