@@ -9,9 +9,9 @@ from __future__ import annotations
 
 import multiprocessing
 import operator
+import os
 from collections.abc import Mapping
 from types import MappingProxyType
-import os
 
 from builder.core.cache import (
     Cache,

@@ -40,14 +40,13 @@ if str(HERE.parents[1]) not in sys.path:
 from builder.chem.dipole import POLAR_THRESHOLD_D, dipole_moment
 from builder.chem.forces import force_profile
 from builder.chem.structure3d import clear_cache
+from builder.fitting.dipole import MAX_HEAVY_ATOMS  # the limit the fit uses
 
 CLEAR_BELOW_D = 0.2
 """Reference moments below this count as clearly non-polar [D]."""
 
 CLEAR_ABOVE_D = 0.8
 """Reference moments above this count as clearly polar [D]."""
-
-from builder.fitting.dipole import MAX_HEAVY_ATOMS  # noqa: E402  the limit the fit uses
 
 
 @dataclass(frozen=True)
