@@ -22,6 +22,7 @@ from builder.chem.hansen import (
     cohesive_energy_split,
     dominant_share,
     estimate_hansen,
+    HansenModel,
     group_estimate,
     load_model,
     mathieu_hansen,
@@ -106,6 +107,21 @@ def test_estimates_of_common_solvents_within_their_interval():
     assert inside >= 16, misses
 
 
+def test_members_are_averaged_and_only_residual_members_add_the_group_value():
+    # by hand: δD members 16.0 + 0.5 (residual) and 17.0 (value) -> 16.75; δP 3.0 whatever the
+    # group says; δH 4.0 - 1.0
+    def leaf(v):
+        return {"feature": [], "threshold": [], "left": [], "right": [], "leaf": [v]}
+
+    model = HansenModel({"environments": [], "uncertainty": {}, "members": {
+        "delta_d": [{"target": "residual", "trees": [leaf(0.5)]}, {"target": "value", "trees": [leaf(17.0)]}],
+        "delta_p": [{"target": "value", "trees": [leaf(1.0), leaf(2.0)]}],
+        "delta_h": [{"target": "residual", "trees": [leaf(-1.0)]}]}})
+    assert model.value("delta_d", [], 16.0) == pytest.approx(16.75)
+    assert model.value("delta_p", [], 9.0) == pytest.approx(3.0)
+    assert model.value("delta_h", [], 4.0) == pytest.approx(3.0)
+
+
 def test_outside_domain():
     assert estimate_hansen("[Na+].[Cl-]").delta_d is None
     assert estimate_hansen("O").status != "OK"        # no carbon
@@ -121,13 +137,13 @@ def test_held_out_accuracy_beats_the_group_method():
         # calibrated interval: between 85 % and 97 % of held-out values inside the 90 % interval
         assert 0.85 <= row["interval90_coverage"] <= 0.97, component
     assert table["delta_h"]["model_all"]["mae"] <= TARGETS["delta_h"]
-    # regression guards at the accuracy reached (targets for δD and δP are not yet met)
-    assert table["delta_d"]["model_all"]["mae"] <= 0.50
+    assert table["delta_d"]["model_all"]["mae"] <= TARGETS["delta_d"]
+    # regression guard at the accuracy reached (the target for δP is not yet met)
     assert table["delta_p"]["model_all"]["mae"] <= 1.55
 
 
 @pytest.mark.slow
-@pytest.mark.xfail(strict=True, reason="issue targets δP ≤ 1.3 and δD ≤ 0.45 not reached; δH ≤ 1.2 is (held-out 0.46, 1.49, 1.09: python -m builder.fitting.hansen --report)")
+@pytest.mark.xfail(strict=True, reason="issue target δP ≤ 1.3 not reached; δD ≤ 0.45 and δH ≤ 1.2 are (held-out 0.44, 1.51, 1.08: python -m builder.fitting.hansen --report)")
 def test_held_out_targets_of_the_issue():
     table = validation()["components"]
     assert all(table[c]["model_all"]["mae"] <= t for c, t in TARGETS.items())

@@ -39,7 +39,8 @@ def test_shipped_models_give_the_tree_by_tree_sum(smiles):
     mol = Chem.MolFromSmiles(smiles)
     bm, mm, hm = boiling.load_model(), melting.load_model(), hansen.load_model()
     rows = [(bm, bm.features(mol)), (mm, melting.melting_row(mol, mm.environments))]
-    rows += [(tree, hansen.hansen_row(mol, hm.environments)[0]) for tree in hm.trees.values()]
+    rows += [(trees, hansen.hansen_row(mol, hm.environments)[0])
+             for members in hm.members.values() for _, trees in members]
     rng = random.Random(smiles)
     for model, x in rows:
         for row in (x, [v * rng.uniform(0.5, 1.5) for v in x]):  # other paths through the same trees
