@@ -3,6 +3,7 @@ printouts): values with plain method names, the stated Antoine range, numeric si
 notes printed in full, shelf cards with every precaution and the health H-codes."""
 from __future__ import annotations
 
+import json
 import re
 from html import unescape
 
@@ -10,6 +11,7 @@ import pytest
 from conftest import DEMO
 
 from builder.core.methods import METHODS
+from builder.fitting.hansen import VALIDATION_PATH as HANSEN_VALIDATION
 from builder.core.units import format_value, uncertainty_decimals
 from builder.pipeline import build
 from builder.publish.views import CARD_NOTES_PATH, card_notes, health_codes
@@ -78,6 +80,26 @@ def test_methods_page_lists_size_bands_in_numeric_order(site):
         assert bands[-1] == "all"
         starts = [int(re.search(r"\d+", unescape(b))[0]) for b in bands[:-1]]
         assert starts == sorted(starts), bands
+
+
+def test_methods_page_shows_the_hansen_held_out_table(site):
+    out, _ = site
+    html = _page(out, "methods.html")
+    section = html[html.index('id="m-hansen-mathieu-trees"'):]
+    table = re.search(r'<table class="compact accuracy hansen-accuracy">.*?</table>', section, re.S)[0]
+    stored = json.loads(HANSEN_VALIDATION.read_text(encoding="utf-8"))
+    rows = [[unescape(c) for c in re.findall(r"<t[hd][^>]*>([^<]*)</t[hd]>", r)]
+            for r in re.findall(r"<tr>(.*?)</tr>", table.split("<tbody>")[1], re.S)]
+    assert len(rows) == 9
+    for symbol, key in (("δD", "delta_d"), ("δP", "delta_p"), ("δH", "delta_h")):
+        t = stored["components"][key]
+        ours = next(r for r in rows if r[:2] == [symbol, "this estimator, all"])
+        group = next(r for r in rows if r[:2] == [symbol, "group method alone"])
+        assert float(ours[3]) == pytest.approx(t["model_all"]["mae"], abs=0.005)
+        assert float(group[3]) == pytest.approx(t["group_method_alone"]["mae"], abs=0.005)
+        assert int(group[2]) == t["group_method_alone"]["n"]
+        target = stored["targets_mae"][key]
+        assert ours[8] == f"≤ {target:.2f} ({'met' if t['model_all']['mae'] <= target else 'not met'})"
 
 
 def test_chart_caption_gives_the_stated_antoine_range(site):

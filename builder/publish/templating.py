@@ -58,7 +58,8 @@ def _boiling_validation() -> dict | None:
 
 def _stored_validation(name: str) -> dict | None:
     """A stored validation table of builder/data (melting_validation.json, boiling_small_validation.json,
-    flammability_validation.json), written by the fitting and report commands, never by hand."""
+    flammability_validation.json, hansen_validation.json), written by the fitting and report commands,
+    never by hand."""
     path = VALIDATION_PATH.parent / name
     if not path.exists():
         return None
@@ -131,7 +132,9 @@ def environment(templates: Path = TEMPLATES, compiled: Path | None = None) -> ji
                        material_link=material_link_markup, piece=piece_markup, substitute_names=substitute_names,
                        melting_validation=_stored_validation("melting_validation.json"),
                        small_validation=_stored_validation("boiling_small_validation.json"),
-                       limits_validation=_stored_validation("flammability_validation.json"))
+                       limits_validation=_stored_validation("flammability_validation.json"),
+                       hansen_validation=_stored_validation("hansen_validation.json"),
+                       HANSEN_NAMES={"delta_d": "δD", "delta_p": "δP", "delta_h": "δH"})
     return env
 
 
