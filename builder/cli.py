@@ -10,6 +10,7 @@ from __future__ import annotations
 import argparse
 import atexit
 import json
+import math
 import os
 import sys
 import threading
@@ -171,6 +172,9 @@ def cmd_substitute(args) -> int:
     from builder.derive.solvency import DEFAULT_MAX_RA, sphere_matches, substitutes_for
     from builder.load.entries import load_catalog
 
+    if args.max_ra is not None and not (math.isfinite(args.max_ra) and args.max_ra > 0):
+        print(f"cohesion substitute: --max-ra must be a positive number of MPa½, not {args.max_ra}", file=sys.stderr)
+        return EXIT_USAGE
     catalog, diagnostics = load_catalog(Path(args.entries))
     if catalog is None:
         _print_diagnostics(diagnostics)
@@ -229,7 +233,7 @@ def cmd_substitute(args) -> int:
         if c.better:
             print(f"      better: {comparison_text(c.better)}")
         if c.worse:
-            print(f"      worse:  {comparison_text(c.worse)}")
+            print(f"      worse:  {comparison_text(c.worse, worse=True)}")
     if not found:
         print("  none within that distance")
     print(CAUTION)
@@ -571,8 +575,8 @@ def parser() -> argparse.ArgumentParser:
     su.add_argument("id", help="the entry id of a catalog liquid or resin")
     su.add_argument("--entries", default="entries", help="entries folder (default: entries)")
     su.add_argument("--max-ra", type=float, default=None, metavar="R",
-                    help="largest Hansen distance Ra of a candidate, MPa½ (default 6)")
-    su.add_argument("--blends", action="store_true", help="also two-solvent blends at their best volume fraction")
+                    help="largest Hansen distance Ra of a candidate, MPa½ (default 6; a resin lists every liquid)")
+    su.add_argument("--blends", action="store_true", help="also two-solvent blends at their best volume fraction (not for a resin)")
     su.add_argument("--json", action="store_true", help="the candidates as JSON")
     su.add_argument("--jobs", type=int, default=None, help="worker processes for deriving")
     su.add_argument("--no-cache", action="store_true", help="derive everything afresh")

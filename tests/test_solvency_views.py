@@ -150,3 +150,101 @@ def test_leaving_out_the_less_safe_first_changes_no_safer_list(blends):
         assert derived_solvency.substitutes_for(d, derived, blends=blends, solvents=solvents, limit=2) == slow[:2]
         checked += bool(slow)
     assert checked >= 3  # the demo has solvents with safer neighbours: the comparison is not empty
+
+
+@pytest.fixture(scope="module")
+def demo():
+    catalog, problems = load_catalog(DEMO)
+    assert not [p for p in problems if p.severity == "error"]
+    derived = derive_catalog(catalog)
+    return {d.entry.id: d for d in derived}, derived
+
+
+def test_a_mixture_without_hazard_statements_carries_its_components_health_statements(demo):
+    # the resin reducer declares no hazard statements; its components p-xylene and 2-butoxyethanol
+    # do (their entries, from CLP Annex VI): the ranking must not see the mixture as free of them
+    from builder.derive import solvency as derived_solvency
+
+    by_id, derived = demo
+    reducer = by_id["hm-resin-reducer"]
+    assert not reducer.entry.hazard_statements
+    parts = [c.entry_id for c in reducer.entry.composition if c.entry_id]
+    expected = set()
+    for part in parts:
+        expected |= {h for h in by_id[part].entry.hazard_statements if h.startswith("H3")}
+    assert expected
+    record = derived_solvency.catalog_solvents(derived)["hm-resin-reducer"]
+    assert record.health_h_codes == expected
+    # a substance keeps exactly what it declares
+    assert derived_solvency.catalog_solvents(derived)["toluene"].health_h_codes == {
+        h for h in by_id["toluene"].entry.hazard_statements if h.startswith("H3")}
+
+
+def test_no_substitute_list_offers_a_candidate_with_more_serious_health_statements(demo):
+    # the safety order puts serious health statements first (builder/chem/solvency.py): no
+    # datasheet list may offer, as safer, a liquid with more of them than the target
+    from builder.derive import solvency as derived_solvency
+
+    by_id, derived = demo
+    solvents = derived_solvency.catalog_solvents(derived)
+    relations = derived_solvency._relations(derived, solvents)
+    assert relations.substitutes
+    for target, found in relations.substitutes.items():
+        mine = len(solvency.serious_health(solvents[target].health_h_codes))
+        for c in found:
+            theirs = len(solvency.serious_health(derived_solvency._record(c, solvents).health_h_codes))
+            assert theirs <= mine, (target, c.id)
+    # dichloromethane (H351) is offered as safer to none of the liquids without a serious statement
+    for target, found in relations.substitutes.items():
+        if not solvency.serious_health(solvents[target].health_h_codes):
+            assert "dichloromethane" not in [c.id for c in found], target
+
+
+def test_gases_and_solids_get_no_liquid_molar_volume(demo):
+    by_id, _ = demo
+    for gas in ("nitrogen", "propane"):
+        assert by_id[gas].label("physical_state").code == "gas"
+        assert by_id[gas].get("molar_volume") is None, gas
+        assert by_id[gas].get("density") is None or by_id[gas].get("density").kind != "estimated", gas
+    salt = by_id["potassium-persulfate"]
+    assert salt.label("physical_state").code == "solid" and salt.get("density") is not None
+    assert salt.get("molar_volume") is None  # its stated density is the solid's
+    # a liquid keeps it: molar mass over density
+    tol = by_id["toluene"]
+    assert tol.get("molar_volume").value == pytest.approx(
+        tol.get("molar_mass").value / (tol.get("density").value / 1000.0))
+
+
+def test_water_states_its_parameters_and_the_resin_lists_every_liquid(demo, capsys):
+    # water is outside the structure estimate (no carbon): the demo entry states Hansen's values
+    # as shipped in chemicals 1.5.2 (15.5, 16.0, 42.3 MPa½)
+    from chemicals.solubility import hansen_delta_d, hansen_delta_h, hansen_delta_p
+
+    by_id, _ = demo
+    water = by_id["water"]
+    for key, f in (("hansen_delta_d", hansen_delta_d), ("hansen_delta_p", hansen_delta_p),
+                   ("hansen_delta_h", hansen_delta_h)):
+        assert water.get(key).value == pytest.approx(f("7732-18-5") / 1000.0)
+    liquids = {i for i, d in by_id.items() if d.label("physical_state") is not None
+               and d.label("physical_state").code == "liquid" and d.entry.hansen_sphere is None}
+    assert main(["substitute", "hm-alkyd-resin", "--entries", str(DEMO), "--json"]) == 0
+    listed = {m["id"] for m in json.loads(capsys.readouterr().out)["liquids"]}
+    assert listed == liquids
+
+
+@pytest.mark.parametrize("bad", ["-1", "0", "nan", "inf"])
+def test_substitute_refuses_a_max_ra_that_is_not_a_positive_number(bad, capsys):
+    assert main(["substitute", "toluene", "--entries", str(DEMO), f"--max-ra={bad}"]) == 2
+    assert "--max-ra must be a positive number" in capsys.readouterr().err
+
+
+def test_comparison_text_names_the_codes_a_candidate_drops_or_adds():
+    from builder.publish.templating import comparison_text
+
+    target = solvency.Solvent("t", (18.0, 6.3, 6.1), None, None, "high", frozenset(),
+                              frozenset({"H315", "H319", "H336", "H351"}))
+    cand = solvency.Solvent("c", (17.8, 1.0, 3.1), 300.0, 3, "medium", frozenset(), frozenset({"H312", "H332"}))
+    better, worse = solvency.compare(cand, target)
+    assert "health H-codes without H315 H319 H336 H351" in comparison_text(better)
+    assert "health H-codes adds H312 H332" in comparison_text(worse, worse=True)
+    assert "flammable category 3 (this material: none)" in comparison_text(worse, worse=True)

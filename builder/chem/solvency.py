@@ -29,12 +29,21 @@ Ra²(φ) = Σ w_k (φ(a_k − b_k) + b_k − t_k)², whose minimum is at
 
 Safety ordering (``safety_key``, lexicographic, safest first):
 
-1. GHS flammable-liquid category: not classified, then 4, 3, 2, 1 (GHS Rev. 10 ch. 2.6);
-2. number of declared health hazard statements (H300-H373);
-3. volatility band: low, medium, high; unknown ranks as high (conservative);
-4. number of structural hazard alerts;
-5. flash point, higher first; unknown after every known value;
-6. Ra to the target, smaller first; then the id.
+1. number of serious health hazard statements (``SERIOUS_HEALTH``): carcinogenicity, germ cell
+   mutagenicity, reproductive toxicity (any category), acute toxicity categories 1-3, specific
+   target organ toxicity (single exposure categories 1-2, repeated exposure), skin corrosion and
+   respiratory sensitisation (the classes and categories behind each code: GHS Rev. 10 annex 3);
+2. GHS flammable-liquid category: not classified, then 4, 3, 2, 1 (GHS Rev. 10 ch. 2.6);
+3. number of the other declared health hazard statements (H300-H373);
+4. volatility band: low, medium, high; unknown ranks as high (conservative);
+5. number of structural hazard alerts;
+6. flash point, higher first; unknown after every known value;
+7. Ra to the target, smaller first; then the id.
+
+Which codes count as serious, and that they come before flammability, is this catalog's rule,
+not a published one: substituting a solvent usually aims first at chronic and life-threatening
+health effects (a suspected carcinogen is not made "safer" by a flammable replacement that lacks
+it, nor the reverse), and a lighter health hazard should not outweigh a fire hazard.
 
 A blend takes the less safe value of its two parts for every criterion (worse category,
 lower flash point, more volatile band, the union of alerts and hazard statements): blends
@@ -170,6 +179,29 @@ class Candidate:
     worse: tuple[Comparison, ...] = field(default=())
 
 
+SERIOUS_HEALTH = frozenset({
+    "H300", "H301", "H310", "H311", "H330", "H331",   # acute toxicity, categories 1-3
+    "H314",                                           # skin corrosion
+    "H334",                                           # respiratory sensitisation
+    "H340", "H341", "H350", "H351",                   # mutagenicity, carcinogenicity
+    "H360", "H361", "H362",                           # reproductive toxicity, effects via lactation
+    "H370", "H371", "H372", "H373",                   # target organ toxicity
+})
+"""Health hazard statements ranked first (module docstring); a code with a suffix (H350i,
+H361d, H360FD) counts by its first four characters."""
+
+
+def serious_health(codes) -> frozenset[str]:
+    """The serious ones among health hazard statements ``codes``.
+
+    >>> sorted(serious_health({"H319", "H336", "H351"}))
+    ['H351']
+    >>> sorted(serious_health({"H361d", "H373", "H304"}))
+    ['H361d', 'H373']
+    """
+    return frozenset(c for c in codes if c[:4] in SERIOUS_HEALTH)
+
+
 def _flam_rank(category: int | None) -> int:
     return 0 if category is None else 5 - category
 
@@ -181,12 +213,17 @@ def _vol_rank(band: str | None) -> int:
 def safety_key(s: Solvent, ra: float) -> tuple:
     """The sort key of the safety ordering (module docstring), safest first."""
     flash = -s.flash_point_K if s.flash_point_K is not None else math.inf
-    return (_flam_rank(s.flammable_category), len(s.health_h_codes), _vol_rank(s.volatility_band),
-            len(s.alert_ids), flash, round(ra, 9), s.id)
+    serious = len(serious_health(s.health_h_codes))
+    return (serious, _flam_rank(s.flammable_category), len(s.health_h_codes) - serious,
+            _vol_rank(s.volatility_band), len(s.alert_ids), flash, round(ra, 9), s.id)
 
 
 def compare(candidate: Solvent, target: Solvent) -> tuple[tuple[Comparison, ...], tuple[Comparison, ...]]:
-    """What ``candidate`` is better and worse at than ``target``, criterion by criterion."""
+    """What ``candidate`` is better and worse at than ``target``, criterion by criterion.
+
+    For the hazard statements and the alerts, each side of a comparison is the whole sorted set;
+    a candidate is better when the target has codes it lacks and worse when it has codes the
+    target lacks (it can be both)."""
     better: list[Comparison] = []
     worse: list[Comparison] = []
 
@@ -205,10 +242,11 @@ def compare(candidate: Solvent, target: Solvent) -> tuple[tuple[Comparison, ...]
          candidate.volatility_band, target.volatility_band)
     for criterion, cand_set, targ_set in (("health_h_codes", candidate.health_h_codes, target.health_h_codes),
                                            ("alert_ids", candidate.alert_ids, target.alert_ids)):
+        both = (tuple(sorted(cand_set)), tuple(sorted(targ_set)))
         if targ_set - cand_set:
-            better.append(Comparison(criterion, (), tuple(sorted(targ_set - cand_set))))
+            better.append(Comparison(criterion, *both))
         if cand_set - targ_set:
-            worse.append(Comparison(criterion, tuple(sorted(cand_set - targ_set)), ()))
+            worse.append(Comparison(criterion, *both))
     return tuple(better), tuple(worse)
 
 

@@ -359,7 +359,7 @@ def format_value(si_value: float, si_unit: str, uncertainty: float | None = None
             sign = "+" if round(si_value, d) > 0 else ""
             return f"{sign}{si_value:.{d}f} ± {round(uncertainty, d):.{d}f} K".replace("-", "\u2212")
         return f"{si_value:+.1f} K".replace("-", "\u2212")
-    display = {"g/mol": "g/mol", "D": "D", "A**3": "Å³", "A**2": "Å²", "ppm": "ppm", "MPa**0.5": "MPa½",
+    display = {"g/mol": "g/mol", "D": "D", "A**3": "Å³", "A**2": "Å²", "ppm": "ppm", "MPa**0.5": "MPa½", "cm**3/mol": "cm³/mol",
                "dimensionless": "", "count": ""}
     if si_unit == "J/mol":
         if uncertainty:

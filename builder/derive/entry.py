@@ -121,7 +121,7 @@ def derive_entry(entry: Entry, locations: Mapping[str, Location] | None = None,
     findings += fire.findings
     notes = tuple(fire.notes)
     if entry.type == "substance":
-        values.update(hansen_values(entry, mol, values))
+        values.update(hansen_values(entry, mol, values, labels.get("physical_state")))
     if entry.hazard_statements:
         labels["hazard_statements"] = hazard_label(entry)
     alerts, storage = hazard_alerts_of(entry, identity, labels)

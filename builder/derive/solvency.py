@@ -38,8 +38,13 @@ SHOWN_SUBSTITUTES = 5
 _HEALTH = ("H30", "H31", "H32", "H33", "H34", "H35", "H36", "H37")
 
 
-def hansen_values(entry, mol, values) -> dict[str, Value]:
-    """δD, δP, δH, the cohesive-energy shares, and density / molar volume where not stated."""
+def hansen_values(entry, mol, values, state=None) -> dict[str, Value]:
+    """δD, δP, δH, the cohesive-energy shares, and density / molar volume where not stated.
+
+    ``state``: the physical-state label. The liquid molar volume is given for a liquid, and for a
+    solid only from the structure estimate (a sub-cooled liquid's); a gas gets neither an
+    estimated density nor a molar volume (at 25 °C it is no liquid), and a solid's stated density
+    (of the solid) gives no liquid molar volume."""
     out: dict[str, Value] = {}
     h = entry.hansen
     if h is not None:
@@ -57,14 +62,15 @@ def hansen_values(entry, mol, values) -> dict[str, Value]:
                 note = f"90 % interval {lo:.1f} to {hi:.1f} MPa½" if lo is not None else None
                 out[key] = estimated(max(x, 0.0), "MPa**0.5", "hansen-mathieu-trees", u, note)
     out.update(cohesive_shares(out))
-    if mol is not None and "density" not in values:
+    code = state.code if state is not None else None
+    if mol is not None and "density" not in values and code != "gas":
         vol = estimate_liquid_density(mol)
         if vol.density_kg_m3 is not None:
             out["density"] = estimated(vol.density_kg_m3, "kg/m**3", "liquid-volume-mathieu-2018", vol.u_density,
                                        "liquid at 25 °C, from structure")
-    density = values.get("density") or out.get("density")
+    density = (values.get("density") if code in ("liquid", None) else None) or out.get("density")
     mm = values.get("molar_mass")
-    if density is not None and mm is not None and density.value > 0:
+    if density is not None and mm is not None and density.value > 0 and code != "gas":
         volume = mm.value / (density.value / 1000.0)  # g/mol over g/cm³: cm³/mol
         u = volume * density.uncertainty / density.value if density.uncertainty else None
         out["molar_volume"] = Value(volume, "cm**3/mol", Provenance(inherited_kind(density), method="molar-volume",
@@ -113,8 +119,26 @@ def is_liquid(d) -> bool:
     return state is not None and state.code == "liquid"
 
 
-def solvent_of(d) -> solvency.Solvent | None:
-    """The ranking's record of a catalog liquid (None for a solid, a gas or one without parameters)."""
+def health_codes(d, by_id: dict | None = None, _seen: tuple = ()) -> frozenset[str]:
+    """The health hazard statements of an entry: those it declares; for a mixture that declares
+    no hazard statements at all, every health statement its catalog components declare (or
+    inherit), whatever their share — a mixture's own classification can be milder, so this errs
+    on the side of caution. ``by_id``: the catalog's derived entries by id."""
+    own = frozenset(h for h in d.entry.hazard_statements if h.startswith(_HEALTH))
+    if d.entry.hazard_statements or not by_id or d.entry.type == "substance":
+        return own
+    codes: set[str] = set()
+    for c in d.entry.composition:
+        part = by_id.get(c.entry_id) if c.entry_id else None
+        if part is not None and c.entry_id not in _seen:
+            codes |= health_codes(part, by_id, (*_seen, d.entry.id))
+    return frozenset(codes)
+
+
+def solvent_of(d, by_id: dict | None = None) -> solvency.Solvent | None:
+    """The ranking's record of a catalog liquid (None for a solid, a gas or one without parameters);
+    ``by_id``: the catalog by id, from which a mixture takes its components' health statements
+    (``health_codes``)."""
     params = params_of(d)
     if params is None or not is_liquid(d) or d.entry.hansen_sphere is not None:
         return None
@@ -124,7 +148,7 @@ def solvent_of(d) -> solvency.Solvent | None:
     return solvency.Solvent(d.entry.id, params, fp.value if fp else None,
                             cat.code if cat is not None and isinstance(cat.code, int) else None,
                             band.code if band else None, frozenset(a.id for a in d.hazard_alerts),
-                            frozenset(h for h in d.entry.hazard_statements if h.startswith(_HEALTH)))
+                            health_codes(d, by_id))
 
 
 @dataclass(frozen=True)
@@ -205,7 +229,8 @@ def _safety_order(solvents: dict, safety: dict) -> _SafetyOrder:
 
 def catalog_solvents(derived) -> dict[str, solvency.Solvent]:
     """The ranking's record of every catalog liquid with Hansen parameters, by id (catalog order)."""
-    return {s.id: s for s in (solvent_of(d) for d in derived) if s is not None}
+    by_id = {d.entry.id: d for d in derived}
+    return {s.id: s for s in (solvent_of(d, by_id) for d in derived) if s is not None}
 
 
 def _record(candidate, solvents: dict) -> solvency.Solvent:

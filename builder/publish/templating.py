@@ -70,6 +70,8 @@ def _stored_validation(name: str) -> dict | None:
 #: how the substitution ranking's criteria read on a page
 _CRITERIA = {"flammable_category": "flammable category", "flash_point_K": "flash point",
              "volatility_band": "volatility", "health_h_codes": "health H-codes", "alert_ids": "alerts"}
+#: criteria compared as sets of codes
+_SET_CRITERIA = ("health_h_codes", "alert_ids")
 
 
 def _criterion_value(criterion: str, value) -> str:
@@ -84,10 +86,21 @@ def _criterion_value(criterion: str, value) -> str:
     return str(value)
 
 
-def comparison_text(comparisons) -> str:
-    """"flash point 22 °C (target −4 °C); ..." for the better/worse lists of a substitute."""
-    return "; ".join(f"{_CRITERIA.get(c.criterion, c.criterion)} {_criterion_value(c.criterion, c.candidate)} "
-                     f"(this material: {_criterion_value(c.criterion, c.target)})" for c in comparisons)
+def comparison_text(comparisons, worse: bool = False) -> str:
+    """"flash point 22 °C (this material: −4 °C); ..." for the better (or, with ``worse``, the worse)
+    list of a substitute. For hazard statements and alerts, the codes the candidate is without
+    (better) or adds (worse) against this material: "health H-codes without H336 H351"."""
+    parts = []
+    for c in comparisons:
+        label = _CRITERIA.get(c.criterion, c.criterion)
+        if c.criterion in _SET_CRITERIA:
+            cand, targ = set(c.candidate or ()), set(c.target or ())
+            codes = sorted(cand - targ) if worse else sorted(targ - cand)
+            parts.append(f"{label} {'adds' if worse else 'without'} {' '.join(codes)}")
+        else:
+            parts.append(f"{label} {_criterion_value(c.criterion, c.candidate)} "
+                         f"(this material: {_criterion_value(c.criterion, c.target)})")
+    return "; ".join(parts)
 
 
 def distance_value(x: float, unit: str = "MPa**0.5") -> Value:

@@ -20,6 +20,8 @@ from builder.chem.solvency import (
     rank_substitutes,
     red_class,
     relative_energy_difference,
+    safety_key,
+    serious_health,
 )
 
 TOLUENE = (18.0, 1.4, 2.0)
@@ -77,8 +79,9 @@ def test_blend_optimum_hand_computed():
 
 def _catalog():
     # An invented catalog around a target "tgt" (parameters like toluene's); the expected order
-    # follows the documented safety rules: category first, then health statements, volatility,
-    # alerts, flash point.
+    # follows the documented safety rules: serious health statements first (the target's H361d
+    # and H373 are reproductive and repeated-exposure organ toxicity), then category, the other
+    # health statements, volatility, alerts, flash point.
     target = Solvent("tgt", TOLUENE, 277.0, 2, "medium", frozenset(), frozenset({"H304", "H361d", "H373"}))
     return target, [
         target,
@@ -86,9 +89,10 @@ def _catalog():
         Solvent("safe3", (17.8, 1.0, 3.1), 300.0, 3, "medium", frozenset(), frozenset({"H304"})),
         # same category as the target but fewer health statements
         Solvent("same2", (17.6, 2.0, 2.5), 280.0, 2, "medium", frozenset(), frozenset({"H304"})),
-        # not classified as flammable (no category): best of all, but farther away (Ra 3.7)
+        # not classified as flammable (no category) but a suspected carcinogen (H351): after every
+        # candidate without a serious health statement (Ra 3.7)
         Solvent("nonflam", (18.5, 3.0, 5.0), None, None, "low", frozenset(), frozenset({"H351"})),
-        # very close but category 1 and high volatility: last
+        # very close but category 1 and high volatility: last of those without a serious statement
         Solvent("worse1", (18.0, 1.5, 2.2), 250.0, 1, "high", frozenset({"peroxide-former"}), frozenset()),
         # good in every way but too far in solvency (ethanol): excluded at max_ra 5
         Solvent("far", ETHANOL, 286.0, 2, "medium", frozenset(), frozenset()),
@@ -98,7 +102,7 @@ def _catalog():
 def test_rank_substitutes_order_and_reasons():
     target, catalog = _catalog()
     result = rank_substitutes(target, catalog, max_ra=5.0)
-    assert [c.id for c in result] == ["nonflam", "safe3", "same2", "worse1"]
+    assert [c.id for c in result] == ["safe3", "same2", "worse1", "nonflam"]
     assert all(c.ra <= 5.0 for c in result)
     by_id = {c.id: c for c in result}
     better = {b.criterion for b in by_id["safe3"].better}
@@ -107,9 +111,22 @@ def test_rank_substitutes_order_and_reasons():
     assert {"flammable_category", "flash_point_K", "volatility_band", "alert_ids"} <= worse1
     # worse1 carries none of the target's health statements: that is listed as better
     assert any(b.criterion == "health_h_codes" for b in by_id["worse1"].better)
-    # nonflam adds H351, which the target lacks: listed as worse
-    assert [w.target for w in by_id["nonflam"].worse if w.criterion == "health_h_codes"] == [()]
-    assert [w.candidate for w in by_id["nonflam"].worse if w.criterion == "health_h_codes"] == [("H351",)]
+    # nonflam adds H351, which the target lacks: listed as worse, and (lacking H304, H361d, H373)
+    # as better; each side of the comparison is the whole set of codes
+    health_worse = [w for w in by_id["nonflam"].worse if w.criterion == "health_h_codes"]
+    assert [(w.candidate, w.target) for w in health_worse] == [(("H351",), ("H304", "H361d", "H373"))]
+    assert any(b.criterion == "health_h_codes" for b in by_id["nonflam"].better)
+
+
+def test_a_serious_health_hazard_outranks_flammability():
+    # a non-flammable suspected carcinogen (like dichloromethane: H351) against a flammable liquid
+    # whose only health statement is eye irritation (H319): the flammable one ranks safer, and the
+    # carcinogen is not offered as a safer substitute for it (builder/chem/solvency.py docstring)
+    carc = Solvent("carc", (18.0, 6.3, 6.1), None, None, "high", frozenset(), frozenset({"H351", "H319"}))
+    flam = Solvent("flam", (17.5, 5.7, 6.5), 280.0, 2, "high", frozenset(), frozenset({"H319"}))
+    assert safety_key(flam, 1.0) < safety_key(carc, 1.0)
+    assert [c.id for c in rank_substitutes(carc, [carc, flam], max_ra=5.0)] == ["flam"]
+    assert serious_health({"H361d", "H360FD", "H350i", "H319", "H304"}) == {"H361d", "H360FD", "H350i"}
 
 
 def test_rank_substitutes_blends():
