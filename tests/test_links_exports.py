@@ -142,6 +142,16 @@ def test_catalog_json_round_trips_the_model(tmp_path, synthetic, make_entries):
     assert float(ethanol["boiling_point_degC"]) == pytest.approx(78.3)
     assert ethanol["boiling_point_provenance"] == "literature"
     assert ethanol["dominant_force"] == "hydrogen-bonding"
+    # every Hansen parameter and density in the CSV says where it came from, as in the JSON
+    by_id = {d.entry.id: d for d in built.derived}
+    checked = 0
+    for r in rows:
+        for key, column in (("hansen_delta_d", "hansen_delta_d"), ("hansen_delta_p", "hansen_delta_p"),
+                            ("hansen_delta_h", "hansen_delta_h"), ("density", "density")):
+            value = by_id[r["id"]].get(key)
+            assert r[f"{column}_provenance"] == (value.kind if value is not None else ""), (r["id"], key)
+            checked += value is not None
+    assert checked
 
 
 def test_entry_text_cannot_inject_markup_or_script(make_entries, tmp_path):

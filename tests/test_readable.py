@@ -102,6 +102,21 @@ def test_methods_page_shows_the_hansen_held_out_table(site):
         assert ours[8] == f"≤ {target:.2f} ({'met' if t['model_all']['mae'] <= target else 'not met'})"
 
 
+def test_solvency_page_says_what_each_substitute_is_better_and_worse_at(site):
+    out, _ = site
+    html = _page(out, "solvency.html")
+    items = re.findall(r'<ul class="substitutes">(.*?)</ul>', html, re.S)
+    assert items
+    for block in items:
+        for li in re.findall(r"<li>(.*?)</li>", block, re.S):
+            assert '<span class="better">better: ' in li, li
+    # the same words as the datasheet's table for the same pair: toluene's list names p-xylene
+    # as lacking toluene's reproductive-toxicity statement (both entries: CLP Annex VI)
+    row = html[html.index(">Toluene</a>"):]
+    row = row[:row.index("</tr>")]
+    assert "p-Xylene" in row and "without" in row and "H361d" in _text(row)
+
+
 def test_chart_caption_gives_the_stated_antoine_range(site):
     out, _ = site
     text = _text(_page(out, "materials/toluene.html"))
