@@ -207,6 +207,8 @@ def cmd_substitute(args) -> int:
         print(f"cohesion substitute: '{args.id}' is not a liquid with Hansen parameters", file=sys.stderr)
         return EXIT_ENTRIES
     found = substitutes_for(target, derived, max_ra, blends=args.blends, safer_only=False)
+    if args.blends:
+        found = [_with_mixing(c, by_id) for c in found]
 
     def side(comparisons):
         return [{"criterion": c.criterion, "candidate": sorted(c.candidate) if isinstance(c.candidate, frozenset)
@@ -238,6 +240,23 @@ def cmd_substitute(args) -> int:
         print("  none within that distance")
     print(CAUTION)
     return EXIT_OK
+
+
+def _with_mixing(candidate, by_id):
+    """A blend candidate with, among what it is worse at, that its parts may not mix (or that this
+    was not checked); a single liquid unchanged."""
+    from dataclasses import replace
+
+    from builder.chem.solvency import Comparison
+    from builder.derive.solvency import blend_separates
+
+    if not candidate.blend:
+        return candidate
+    separates = blend_separates(candidate, by_id)
+    if separates is False:
+        return candidate
+    text = ("may separate into two liquid phases" if separates else "not checked") + " (UNIFAC, 25 °C)"
+    return replace(candidate, worse=(*candidate.worse, Comparison("miscibility", text, "one liquid")))
 
 
 def cmd_diff(args) -> int:

@@ -268,3 +268,29 @@ def test_datasheet_shows_the_density_estimated_where_none_is_stated(make_entries
     shown = float(re.search(r"([\d.]+)(?: ± [\d.]+)? g/cm³", row[1])[1])
     assert shown == pytest.approx(CRC_organic_data.loc["123-86-4", "rho"] / 1000.0, rel=0.04)
     assert re.search(r'<th scope="row">Liquid molar volume</th>', sheet)
+
+
+@pytest.mark.slow
+def test_blends_whose_parts_may_not_mix_say_so(demo, capsys):
+    # p-xylene with water separates (common practice); UNIFAC's gap decides each blend, and a blend
+    # the check finds to be one liquid carries no such remark
+    from builder.derive.solvency import blend_separates
+
+    by_id, _ = demo
+    assert main(["substitute", "dichloromethane", "--entries", str(DEMO), "--blends", "--json"]) == 0
+    blends = [c for c in json.loads(capsys.readouterr().out)["candidates"] if "blend" in c]
+    assert blends
+    seen_water = False
+    for c in blends:
+        remark = [w["candidate"] for w in c["worse"] if w["criterion"] == "miscibility"]
+        ids = {i for i, _ in c["blend"]}
+        verdict = blend_separates(solvency.Candidate(None, tuple((i, phi) for i, phi in c["blend"]), (0, 0, 0), 0.0),
+                                  by_id)
+        if ids == {"p-xylene", "water"}:
+            seen_water = True
+            assert verdict is True
+        if verdict is False:
+            assert remark == []
+        else:
+            assert remark and ("two liquid phases" in remark[0]) == bool(verdict)
+    assert seen_water

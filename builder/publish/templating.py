@@ -93,7 +93,9 @@ def comparison_text(comparisons, worse: bool = False) -> str:
     parts = []
     for c in comparisons:
         label = _CRITERIA.get(c.criterion, c.criterion)
-        if c.criterion in _SET_CRITERIA:
+        if c.criterion == "miscibility":
+            parts.append(f"mixing: {c.candidate}")
+        elif c.criterion in _SET_CRITERIA:
             cand, targ = set(c.candidate or ()), set(c.target or ())
             codes = sorted(cand - targ) if worse else sorted(targ - cand)
             parts.append(f"{label} {'adds' if worse else 'without'} {' '.join(codes)}")
