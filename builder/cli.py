@@ -445,6 +445,8 @@ def _profile_rows(result: dict, forces: dict) -> list[tuple[str, dict]]:
     # ``bubble_point`` repeats a mixture's boiling point under the name the JSON promises: shown once
     found = {k: v for k, v in result.items() if isinstance(v, dict) and "value" in v and k != "bubble_point"}
     found.update({k: v for k, v in forces.items() if isinstance(v, dict) and "value" in v and k not in found})
+    # the Hansen parameters are nested in the JSON ({"hansen": {"delta_d": ...}}): shown under their own labels
+    found.update({f"hansen_{k}": v for k, v in (result.get("hansen") or {}).items() if isinstance(v, dict)})
     order = [k for k in DERIVED_QUANTITIES if k in found] + [k for k in found if k not in DERIVED_QUANTITIES]
     return [(DERIVED_QUANTITIES[k].label if k in DERIVED_QUANTITIES else k, found[k]) for k in order]
 

@@ -294,3 +294,45 @@ def test_blends_whose_parts_may_not_mix_say_so(demo, capsys):
         else:
             assert remark and ("two liquid phases" in remark[0]) == bool(verdict)
     assert seen_water
+
+
+def test_cohesive_shares_carry_the_propagated_uncertainty():
+    # first-order propagation (JCGM 100:2008 eq. 10) with the sensitivities taken numerically
+    # (central differences), against the closed-form derivatives in cohesive_shares
+    from builder.core.values import estimated
+    from builder.derive.solvency import cohesive_shares
+
+    deltas, us = (18.1, 1.5, 2.5), (0.7, 2.0, 1.9)
+    params = {k: estimated(x, "MPa**0.5", "hansen-mathieu-trees", u)
+              for k, x, u in zip(("hansen_delta_d", "hansen_delta_p", "hansen_delta_h"), deltas, us)}
+    shares = cohesive_shares(params)
+
+    def share(i, xs):
+        return 100 * xs[i] ** 2 / sum(x * x for x in xs)
+
+    for i, name in enumerate(("dispersion", "polar", "hbond")):
+        grads = []
+        for j in range(3):
+            hi, lo = list(deltas), list(deltas)
+            hi[j] += 1e-6
+            lo[j] -= 1e-6
+            grads.append((share(i, hi) - share(i, lo)) / 2e-6)
+        expected = math.sqrt(sum((g * u) ** 2 for g, u in zip(grads, us)))
+        assert shares[f"cohesive_share_{name}"].uncertainty == pytest.approx(expected, rel=1e-6)
+    # stated parameters without uncertainty: shares without one
+    stated = {k: v.__class__(v.value, v.unit, v.provenance) for k, v in params.items()}
+    assert all(v.uncertainty is None for v in cohesive_shares(stated).values())
+
+
+def test_text_profile_shows_the_hansen_parameters(capsys):
+    from builder.core.units import format_value
+
+    assert main(["profile", "CCO", "--json"]) == 0
+    h = json.loads(capsys.readouterr().out)["hansen"]
+    assert main(["profile", "CCO"]) == 0
+    text = capsys.readouterr().out
+    for key, label in (("delta_d", "Hansen dispersion parameter δD"), ("delta_p", "Hansen polar parameter δP"),
+                       ("delta_h", "Hansen hydrogen-bonding parameter δH")):
+        line = next(line for line in text.splitlines() if label in line)
+        assert format_value(h[key]["value"], "MPa**0.5", h[key]["uncertainty"]) in line
+        assert "[estimated:" in line

@@ -79,7 +79,11 @@ def hansen_values(entry, mol, values, state=None) -> dict[str, Value]:
 
 
 def cohesive_shares(params: dict[str, Value]) -> dict[str, Value]:
-    """The shares of the cohesive energy (δD²/δ², δP²/δ², δH²/δ²) as percentages."""
+    """The shares of the cohesive energy (δD²/δ², δP²/δ², δH²/δ²) as percentages.
+
+    Their standard uncertainties follow from those of the parameters by first-order propagation
+    (JCGM 100:2008, the law of propagation of uncertainty, parameters taken as independent): with
+    T = δD² + δP² + δH² and s_X = δX²/T, ∂s_X/∂δX = 2δX(T − δX²)/T² and ∂s_X/∂δY = −2δY·δX²/T²."""
     if not all(k in params for k in KEYS):
         return {}
     d, p, h = (params[k].value for k in KEYS)
@@ -89,8 +93,16 @@ def cohesive_shares(params: dict[str, Value]) -> dict[str, Value]:
     kind = inherited_kind(*(params[k] for k in KEYS))
     prov = Provenance(kind if kind != "rule" else "computed", method="cohesive-energy-split",
                       note="from the Hansen parameters above")
-    return {f"cohesive_share_{name}": Value(100 * split[part], "%", prov)
-            for name, part in (("dispersion", "dispersion"), ("polar", "polar"), ("hbond", "hydrogen_bond"))}
+    deltas = (d, p, h)
+    us = [params[k].uncertainty or 0.0 for k in KEYS]
+    total = d * d + p * p + h * h
+    out = {}
+    for i, (name, part) in enumerate((("dispersion", "dispersion"), ("polar", "polar"), ("hbond", "hydrogen_bond"))):
+        x2 = deltas[i] ** 2
+        grads = [2 * deltas[j] * ((total - x2) if j == i else -x2) / total**2 for j in range(3)]
+        u = math.sqrt(sum((g * uj) ** 2 for g, uj in zip(grads, us)))
+        out[f"cohesive_share_{name}"] = Value(100 * split[part], "%", prov, 100 * u if u > 0 else None)
+    return out
 
 
 def blend_values(parts: list[tuple[dict, float]]) -> dict[str, Value]:
