@@ -64,6 +64,20 @@ def test_profile_with_given_values_is_category_1(capsys):
     assert all({"id", "text", "severity", "source"} <= set(n) for n in obj["handling_notes"])
 
 
+def test_an_uncertain_state_is_said_before_the_notes_that_assume_the_more_mobile_one(capsys):
+    # ethanol from its structure alone: the estimated boiling point's 90 % interval reaches below
+    # 20 °C, so the gas notes apply and the note on the uncertain state comes with them; with the
+    # boiling and melting points given (CRC 95th ed.: 78.29 °C, −114.14 °C, from memory) the state
+    # is clear and neither appears
+    (obj,) = _profile(capsys, "CCO")
+    ids = [n["id"] for n in obj["handling_notes"]]
+    assert "state-uncertain" in ids and "gas-cylinder" in ids
+    assert ids.index("state-uncertain") < ids.index("gas-cylinder")
+    (obj,) = _profile(capsys, "CCO", "--given", "boiling_point=78.29 °C", "--given", "melting_point=-114.14 °C")
+    ids = [n["id"] for n in obj["handling_notes"]]
+    assert "state-uncertain" not in ids and "gas-cylinder" not in ids
+
+
 def test_profile_without_given_values_reports_the_estimates_spread(capsys):
     (obj,) = _profile(capsys, "CCOCC")
     assert obj["boiling_point"]["provenance"]["kind"] == "estimated"
