@@ -46,6 +46,7 @@ hazard that needs a specific precaution), ``info`` (context).
 
 from __future__ import annotations
 
+import re
 import string
 from dataclasses import dataclass
 from pathlib import Path
@@ -338,7 +339,11 @@ def _render(text: str, facts: dict[str, Any], formats: dict | None = None) -> st
         if field is not None:
             name, _, filt = field.partition("|")
             out.append(_format_value(facts.get(name), filt, formats))
-    return " ".join("".join(out).split())
+    # one space between words; a number keeps its unit on the same line (no-break space)
+    return _UNIT_AFTER_NUMBER.sub("\\1\u00a0\\2", " ".join("".join(out).split()))
+
+
+_UNIT_AFTER_NUMBER = re.compile(r"(\d) (°C|K\b|kPa|Pa\b|ppm|%)")
 
 
 def check_facts(facts: dict[str, Any]) -> None:
