@@ -211,9 +211,7 @@ def cmd_substitute(args) -> int:
         found = [_with_mixing(c, by_id) for c in found]
 
     def side(comparisons):
-        return [{"criterion": c.criterion, "candidate": sorted(c.candidate) if isinstance(c.candidate, frozenset)
-                 else c.candidate, "target": sorted(c.target) if isinstance(c.target, frozenset) else c.target}
-                for c in comparisons]
+        return [{"criterion": c.criterion, "candidate": c.candidate, "target": c.target} for c in comparisons]
 
     if args.json:
         rows = []

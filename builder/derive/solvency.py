@@ -70,7 +70,7 @@ def hansen_values(entry, mol, values, state=None) -> dict[str, Value]:
                                        "liquid at 25 °C, from structure")
     density = (values.get("density") if code in ("liquid", None) else None) or out.get("density")
     mm = values.get("molar_mass")
-    if density is not None and mm is not None and density.value > 0 and code != "gas":
+    if density is not None and mm is not None and density.value > 0:
         volume = mm.value / (density.value / 1000.0)  # g/mol over g/cm³: cm³/mol
         u = volume * density.uncertainty / density.value if density.uncertainty else None
         out["molar_volume"] = Value(volume, "cm**3/mol", Provenance(inherited_kind(density), method="molar-volume",

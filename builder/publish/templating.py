@@ -75,14 +75,11 @@ _SET_CRITERIA = ("health_h_codes", "alert_ids")
 
 
 def _criterion_value(criterion: str, value) -> str:
-    if value is None or value == () or value == frozenset():
+    """One side of a comparison on a single value (the set criteria are written by ``comparison_text``)."""
+    if value is None:
         return "none"
     if criterion == "flash_point_K":
         return temperature_text(value)
-    if criterion == "flammable_category":
-        return str(value)
-    if isinstance(value, (set, frozenset, tuple, list)):
-        return " ".join(sorted(value))
     return str(value)
 
 
