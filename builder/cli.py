@@ -169,6 +169,7 @@ def _check_diagnostics(args, files, cache) -> tuple[list[Diagnostic], int | None
 def cmd_substitute(args) -> int:
     from builder.chem.solvency import CAUTION
     from builder.derive.catalog import derive_catalog
+    from builder.derive.blends import MOVED, NOT_CHECKED, BlendCheck, one_phase_blends
     from builder.derive.solvency import DEFAULT_MAX_RA, sphere_matches, substitutes_for
     from builder.load.entries import load_catalog
 
@@ -207,26 +208,38 @@ def cmd_substitute(args) -> int:
         print(f"cohesion substitute: '{args.id}' is not a liquid with Hansen parameters", file=sys.stderr)
         return EXIT_ENTRIES
     found = substitutes_for(target, derived, max_ra, blends=args.blends, safer_only=False)
+    checks, left_out = [BlendCheck(c) for c in found], 0
     if args.blends:
-        found = [_with_mixing(c, by_id) for c in found]
+        from builder.derive.solvency import catalog_solvents
+
+        solvents = catalog_solvents(derived)
+        checks, left_out = one_phase_blends(found, solvents[args.id], solvents, by_id, max_ra)
 
     def side(comparisons):
         return [{"criterion": c.criterion, "candidate": c.candidate, "target": c.target} for c in comparisons]
 
     if args.json:
         rows = []
-        for c in found:
+        for check in checks:
+            c = check.candidate
             row = {"id": c.id} if c.id else {"blend": [[i, round(phi, 4)] for i, phi in c.blend]}
             row.update(ra=round(c.ra, 3), better=side(c.better), worse=side(c.worse))
+            if check.mixing is not None:
+                row["mixing"] = check.mixing
+            if check.optimum is not None:
+                row["optimal_fraction"] = round(check.optimum, 4)
             rows.append(row)
-        print(json.dumps({"target": args.id, "max_ra": max_ra, "caution": CAUTION, "candidates": rows},
-                         ensure_ascii=False, indent=1))
+        out = {"target": args.id, "max_ra": max_ra, "caution": CAUTION, "candidates": rows}
+        if args.blends:
+            out["blends_left_out"] = left_out
+        print(json.dumps(out, ensure_ascii=False, indent=1))
         return EXIT_OK
     from builder.publish.templating import comparison_text
 
     print(f"{target.entry.name}: catalog liquids{' and blends' if args.blends else ''} within Ra {max_ra:g} MPa½, "
           "safest first")
-    for c in found:
+    for check in checks:
+        c = check.candidate
         name = by_id[c.id].entry.name if c.id else " + ".join(f"{by_id[i].entry.name} {100 * phi:.0f} % v/v"
                                                               for i, phi in c.blend)
         print(f"  {name}  (Ra {c.ra:.1f} MPa½)")
@@ -234,27 +247,19 @@ def cmd_substitute(args) -> int:
             print(f"      better: {comparison_text(c.better)}")
         if c.worse:
             print(f"      worse:  {comparison_text(c.worse, worse=True)}")
-    if not found:
+        if check.mixing == MOVED:
+            print(f"      mixing: at the closest match ({100 * check.optimum:.0f} % v/v "
+                  f"{by_id[c.blend[0][0]].entry.name}) the parts may separate; moved to where they form "
+                  "one liquid (UNIFAC, 25 °C)")
+        elif check.mixing == NOT_CHECKED:
+            print("      mixing: not checked (no UNIFAC groups or molar volume for a part)")
+    if not checks:
         print("  none within that distance")
+    if left_out:
+        print(f"  {left_out} blend{'s' if left_out != 1 else ''} left out: {'their' if left_out != 1 else 'its'} "
+              "parts may separate into two liquid phases at every useful composition (UNIFAC, 25 °C)")
     print(CAUTION)
     return EXIT_OK
-
-
-def _with_mixing(candidate, by_id):
-    """A blend candidate with, among what it is worse at, that its parts may not mix (or that this
-    was not checked); a single liquid unchanged."""
-    from dataclasses import replace
-
-    from builder.chem.solvency import Comparison
-    from builder.derive.solvency import blend_separates
-
-    if not candidate.blend:
-        return candidate
-    separates = blend_separates(candidate, by_id)
-    if separates is False:
-        return candidate
-    text = ("may separate into two liquid phases" if separates else "not checked") + " (UNIFAC, 25 °C)"
-    return replace(candidate, worse=(*candidate.worse, Comparison("miscibility", text, "one liquid")))
 
 
 def cmd_diff(args) -> int:

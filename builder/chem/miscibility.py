@@ -37,12 +37,14 @@ from collections.abc import Sequence
 from builder.chem.unifac import Groups, MissingInteractionParameters, activity_coefficients, missing_interactions
 
 GRID = 199
+STEP = 0.99 / (GRID - 1)
+"""Spacing of the composition grid (mole fraction): a gap's ends are known to within it."""
 TOLERANCE = 1e-6
 T_DEFAULT = 298.15
 
 
 def _gibbs_of_mixing(groups: Sequence[Groups], T: float) -> tuple[list[float], list[float]]:
-    xs = [0.005 + i * (0.99 / (GRID - 1)) for i in range(GRID)]
+    xs = [0.005 + i * STEP for i in range(GRID)]
     gs = []
     for x in xs:
         ga, gb = activity_coefficients(T, [x, 1.0 - x], groups)

@@ -120,35 +120,6 @@ def blend_values(parts: list[tuple[dict, float]]) -> dict[str, Value]:
     return out
 
 
-def blend_separates(candidate, by_id: dict) -> bool | None:
-    """For a blend candidate (``candidate.blend``: two ids and their volume fractions): True when
-    its two parts at the blend's composition may separate into two liquid phases at 25 °C
-    (``builder.chem.miscibility``, UNIFAC: qualitative), False when they form one, None when it
-    cannot be checked (a part without a single structure, UNIFAC groups or parameters, or a
-    liquid molar volume). Volume fractions become mole fractions through the molar volumes."""
-    from rdkit import Chem
-
-    from builder.chem.miscibility import splits
-    from builder.chem.unifac import MissingInteractionParameters, unifac_groups
-
-    (a, phi_a), (b, phi_b) = candidate.blend
-    parts = []
-    for eid, phi in ((a, phi_a), (b, phi_b)):
-        d = by_id.get(eid)
-        volume = d.get("molar_volume") if d is not None else None
-        if d is None or d.identity is None or volume is None or volume.value <= 0:
-            return None
-        groups = unifac_groups(Chem.MolFromSmiles(d.identity.smiles))
-        if isinstance(groups, str):
-            return None
-        parts.append((groups, phi / volume.value))
-    (ga, na), (gb, nb) = parts
-    try:
-        return splits(ga, gb, na / (na + nb))
-    except MissingInteractionParameters:
-        return None
-
-
 def params_of(d) -> tuple[float, float, float] | None:
     if all(d.get(k) is not None for k in KEYS):
         return tuple(d.get(k).value for k in KEYS)  # type: ignore[return-value]
