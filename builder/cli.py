@@ -395,6 +395,12 @@ def cmd_profile(args) -> int:
         print(f"cohesion profile: {exc}", file=sys.stderr)
         return EXIT_USAGE
     status = EXIT_OK
+    if args.entry:
+        if args.smiles or args.mix or args.given:
+            print("cohesion profile: --entry profiles catalog entries as they stand; give it without SMILES, "
+                  "--mix or --given", file=sys.stderr)
+            return EXIT_USAGE
+        return _profile_entries(args)
     if args.mix:
         from builder.derive.profile import profile_mixture
 
@@ -440,6 +446,37 @@ def cmd_profile(args) -> int:
     return status
 
 
+def _profile_entries(args) -> int:
+    """``profile --entry ID``: the profile of catalog entries, stated values and estimates as on
+    their datasheets (the whole catalog is derived: a mixture needs its components)."""
+    from builder.derive.catalog import derive_catalog
+    from builder.derive.serialize import profile_json
+    from builder.load.entries import load_catalog
+
+    catalog, diagnostics = load_catalog(Path(args.entries))
+    if catalog is None:
+        _print_diagnostics(diagnostics)
+        return EXIT_ENTRIES
+    ids = [e.id for e in catalog.entries]
+    unknown = [i for i in args.entry if i not in ids]
+    if unknown:
+        import difflib
+
+        for i in unknown:
+            close = difflib.get_close_matches(i, ids, n=1)
+            print(f"cohesion profile: no entry '{i}' in {args.entries}" + (f" (did you mean '{close[0]}'?)" if close else ""),
+                  file=sys.stderr)
+        return EXIT_USAGE
+    by_id = {d.entry.id: d for d in derive_catalog(catalog, cache=_cache_for(args))}
+    for eid in args.entry:
+        result = {"input": eid, "name": by_id[eid].entry.name, **profile_json(by_id[eid])}
+        if args.json:
+            print(json.dumps(result, ensure_ascii=False, sort_keys=False))
+        else:
+            _print_profile_text(result)
+    return EXIT_OK
+
+
 def _profile_rows(result: dict, forces: dict) -> list[tuple[str, dict]]:
     """(label, value object) of a profile, each value once: the quantities of
     builder/core/quantities.py in its order, then any other value under its key."""
@@ -470,6 +507,8 @@ def _print_profile_text(result: dict) -> None:
     from builder.derive.fire import NOTES_DISCLAIMER
 
     shown_input = " + ".join(result["input"]) if isinstance(result["input"], list) else result["input"]
+    if "name" in result:  # a catalog entry (--entry)
+        shown_input = f"{result['name']} ({result['input']})"
     if "error" in result:
         print(f"{_shown(shown_input)}: error: {result['error']}")
         return
@@ -486,7 +525,7 @@ def _print_profile_text(result: dict) -> None:
     elif "composition" not in result and "mixture_problem" in result:
         print(f"mixture  {shown_input}: {result['mixture_problem']['text']}")
     else:
-        print(f"{result['input']}  →  {result['smiles']}  {result['formula']}  {result['inchikey']}")
+        print(f"{shown_input}  →  {result['smiles']}  {result['formula']}  {result['inchikey']}")
     forces = result.get("forces", {})
     for label, val in _profile_rows(result, forces):
         prov = val["provenance"]
@@ -606,11 +645,16 @@ def parser() -> argparse.ArgumentParser:
     su.add_argument("--no-cache", action="store_true", help="derive everything afresh")
     su.set_defaults(func=cmd_substitute)
 
-    pr = sub.add_parser("profile", help="derive properties for SMILES strings, or for a mixture (--mix)")
+    pr = sub.add_parser("profile", help="derive properties for SMILES strings, a mixture (--mix) or catalog "
+                                        "entries (--entry)")
     pr.add_argument("smiles", nargs="*", help="SMILES strings, files with one SMILES a line, or - for stdin")
     pr.add_argument("--mix", action="append", default=[], metavar="'SMILES=FRACTION'",
                     help="a component of one mixture, e.g. --mix 'CCO=40 %% w/w' --mix 'O=balance' (fractions "
                          "as in an entry's composition: %% w/w, %% v/v, mol/mol, a range 10-20 %% w/w, or balance)")
+    pr.add_argument("--entry", action="append", default=[], metavar="ID",
+                    help="profile a catalog entry as it stands (stated values and estimates); repeatable")
+    pr.add_argument("--entries", default="entries", help="entries folder for --entry (default: entries)")
+    pr.add_argument("--no-cache", action="store_true", help="derive everything afresh (--entry)")
     pr.add_argument("--json", action="store_true", help="one JSON object a line")
     pr.add_argument("--given", action="append", default=[], metavar='NAME="VALUE UNIT"',
                     help="a known value that takes precedence over estimates, e.g. boiling_point=\"34.6 °C\"")

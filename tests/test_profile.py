@@ -67,3 +67,37 @@ def test_profile_text_is_written_for_people(capsys):
     assert re.search(r"flammable category: Category \d( or \d)*( or not a flammable liquid)?"
                      r"( \(most likely (\d|not a flammable liquid)\))? —", out), out
     assert "or category" not in out
+
+
+def test_profile_of_a_catalog_entry_carries_its_stated_values(capsys):
+    # the demo's toluene states its boiling point from the CRC Handbook: the entry profile shows
+    # that value as literature, and it matches chemicals 1.5.2 (Tb of 108-88-3) within 0.2 K
+    from chemicals.phase_change import Tb
+
+    from conftest import DEMO
+
+    assert main(["profile", "--entry", "toluene", "--entries", str(DEMO), "--json"]) == 0
+    (obj,) = _lines(capsys)
+    assert obj["input"] == "toluene" and obj["name"] == "Toluene"
+    assert obj["boiling_point"]["provenance"]["kind"] == "literature"
+    assert obj["boiling_point"]["value"] == pytest.approx(Tb("108-88-3"), abs=0.2)
+    assert obj["boiling_point_estimate"]["provenance"]["kind"] == "estimated"
+
+
+def test_profile_of_an_entry_with_only_a_structure_matches_the_smiles_profile(make_entries, capsys):
+    folder = make_entries({"hexane.yaml": "name: Hexane\nsmiles: CCCCCC\n"})
+    assert main(["profile", "--entry", "hexane", "--entries", str(folder), "--json", "--no-cache"]) == 0
+    (entry,) = _lines(capsys)
+    assert main(["profile", "CCCCCC", "--json"]) == 0
+    (smiles,) = _lines(capsys)
+    for key in ("boiling_point", "flash_point", "vapor_pressure_20C", "hansen"):
+        assert entry[key] == smiles[key], key
+
+
+def test_profile_entry_refuses_unknown_ids_and_mixed_inputs(capsys):
+    from conftest import DEMO
+
+    assert main(["profile", "--entry", "tolune", "--entries", str(DEMO)]) == 2
+    assert "did you mean 'toluene'" in capsys.readouterr().err
+    assert main(["profile", "--entry", "toluene", "CCO", "--entries", str(DEMO)]) == 2
+    assert "without SMILES" in capsys.readouterr().err
